@@ -1,0 +1,48 @@
+import { Command, CommanderError } from 'commander';
+import { healthCommand } from './commands/health';
+import { UsageError, type CliDeps } from './lib/deps';
+import { theme } from './ui/theme';
+
+declare const __VANBAY_VERSION__: string | undefined;
+const VERSION = typeof __VANBAY_VERSION__ === 'string' ? __VANBAY_VERSION__ : '0.0.0-dev';
+
+export function buildProgram(deps: CliDeps) {
+  const program = new Command('vanbay')
+    .description('Vanbay: jobs, readings and checks from the van')
+    .version(VERSION)
+    .option('--server <url>', 'Vanbay server (default: $VANBAY_URL or http://localhost:5180)')
+    .showHelpAfterError(false)
+    .configureOutput({
+      writeOut: (text) => deps.stdout.write(text),
+      writeErr: (text) => deps.stderr.write(text),
+      outputError: () => {}, // printed once, in one line, by runCli
+    })
+    .exitOverride();
+  program.addCommand(healthCommand(deps));
+  return program;
+}
+
+/** Runs the CLI and returns its exit code: 0 done, 1 the server said no, 2 bad input. */
+export async function runCli(argv: string[], deps: CliDeps): Promise<number> {
+  process.exitCode = undefined;
+  const program = buildProgram(deps);
+  try {
+    await program.parseAsync(argv, { from: 'user' });
+    return typeof process.exitCode === 'number' ? process.exitCode : 0;
+  } catch (error) {
+    if (error instanceof CommanderError) {
+      // --help and --version end through here with code 0.
+      if (error.exitCode === 0) return 0;
+      deps.stderr.write(`${theme.error(oneLine(error.message.replace(/^error: /, '')))}\n`);
+      return 2;
+    }
+    if (error instanceof UsageError || (error instanceof Error && error.name === 'ZodError')) {
+      deps.stderr.write(`${theme.error(oneLine(error.message))}\n`);
+      return 2;
+    }
+    deps.stderr.write(`${theme.error(oneLine(error instanceof Error ? error.message : String(error)))}\n`);
+    return 1;
+  }
+}
+
+const oneLine = (text: string) => text.split('\n')[0]!.trim();

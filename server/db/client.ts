@@ -1,0 +1,60 @@
+/**
+ * The one way the server reaches its data: PGlite in a data directory by default (one laptop in
+ * the van), or a real PostgreSQL server when DATABASE_URL is set (a hosted Vanbay). Both speak the
+ * same schema and the same migrations; services see only `Db`.
+ */
+import { mkdirSync } from 'node:fs';
+import { PGlite } from '@electric-sql/pglite';
+import { drizzle as drizzlePglite } from 'drizzle-orm/pglite';
+import { drizzle as drizzlePg } from 'drizzle-orm/node-postgres';
+import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core';
+import pg from 'pg';
+import type { SQL } from 'drizzle-orm';
+import * as schema from './schema';
+
+export type Schema = typeof schema;
+export type Db = PgDatabase<PgQueryResultHKT, Schema>;
+
+export interface Database {
+  db: Db;
+  /** What backs `db`, for start-up messages and tests. */
+  engine: 'pglite' | 'postgres';
+  close(): Promise<void>;
+}
+
+export type DatabaseOptions =
+  | { engine: 'pglite'; dataDir?: string; loadDataDir?: Blob }
+  | { engine: 'postgres'; url: string };
+
+/** Wraps an open PGlite instance (a data dir, an in-memory clone in tests). */
+export function fromPglite(client: PGlite): Database {
+  const db = drizzlePglite({ client, schema, casing: 'snake_case' });
+  return { db, engine: 'pglite', close: () => client.close() };
+}
+
+export async function openDatabase(options: DatabaseOptions): Promise<Database> {
+  if (options.engine === 'postgres') {
+    const pool = new pg.Pool({ connectionString: options.url, max: 10 });
+    const db = drizzlePg({ client: pool, schema, casing: 'snake_case' });
+    return { db, engine: 'postgres', close: () => pool.end() };
+  }
+  if (options.dataDir) mkdirSync(options.dataDir, { recursive: true });
+  const client = await PGlite.create({
+    ...(options.dataDir ? { dataDir: options.dataDir } : {}),
+    ...(options.loadDataDir ? { loadDataDir: options.loadDataDir } : {}),
+  });
+  return fromPglite(client);
+}
+
+/** DATABASE_URL wins; otherwise PGlite in the data dir. */
+export function databaseOptionsFromEnv(env: NodeJS.ProcessEnv, dataDir: string): DatabaseOptions {
+  const url = env.DATABASE_URL?.trim();
+  if (url) return { engine: 'postgres', url };
+  return { engine: 'pglite', dataDir: `${dataDir}/pg` };
+}
+
+/** Rows of a raw SQL query; PGlite and node-postgres both answer with `{ rows }`. */
+export async function queryRows<T>(db: Db, query: SQL): Promise<T[]> {
+  const result = (await db.execute(query)) as unknown as { rows: T[] };
+  return result.rows;
+}

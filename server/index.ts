@@ -1,0 +1,115 @@
+/**
+ * The listening process: opens (or creates) the database, applies migrations, seeds the demo on
+ * first run, serves the API and the built dashboard, and closes the database on SIGINT/SIGTERM.
+ */
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { pathToFileURL } from 'node:url';
+import { createApp } from './app';
+import { CLIENT_DIR, ensureClientBuilt } from './build-client';
+import { readConfig, type ServerConfig } from './config';
+import { databaseOptionsFromEnv, openDatabase, type Database } from './db/client';
+import { migrate } from './db/migrate';
+import { seedDemo } from './db/seed';
+import { DEMO_PASSWORD, demoUsers } from './db/seed-data';
+
+export interface RunningServer {
+  url: string;
+  server: Server;
+  database: Database;
+  stop(): Promise<void>;
+}
+
+export interface StartOptions {
+  config?: ServerConfig;
+  /** Serve the built dashboard (building it first when stale); off for `npm run dev`. */
+  serveClient?: boolean;
+  log?: (line: string) => void;
+}
+
+export async function startServer({
+  config = readConfig(),
+  serveClient = true,
+  log = (line) => console.log(line),
+}: StartOptions = {}): Promise<RunningServer> {
+  // The dashboard build and the database start-up are independent: run them side by side.
+  const [database] = await Promise.all([
+    openAndPrepare(config, log),
+    serveClient ? ensureClientBuilt(log) : Promise.resolve(false),
+  ]);
+  const app = createApp({
+    db: database.db,
+    ...(serveClient ? { clientDir: CLIENT_DIR } : {}),
+    ...(process.env.VANBAY_REQUEST_LOG === 'off' ? {} : { log }),
+  });
+  const server = await new Promise<Server>((resolve, reject) => {
+    const listening = app.listen(config.port, config.host, (error?: Error) =>
+      error ? reject(error) : resolve(listening),
+    );
+  });
+  const { port } = server.address() as AddressInfo;
+  const url = `http://localhost:${port}`;
+
+  let stopping: Promise<void> | undefined;
+  const stop = () =>
+    (stopping ??= (async () => {
+      await new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        server.closeIdleConnections();
+        // Requests still running after a few seconds are cut so the database can close.
+        setTimeout(() => server.closeAllConnections(), 3_000).unref();
+      });
+      await database.close();
+    })());
+  return { url, server, database, stop };
+}
+
+async function openAndPrepare(config: ServerConfig, log: (line: string) => void): Promise<Database> {
+  const database = await openDatabase(databaseOptionsFromEnv(process.env, config.dataDir));
+  try {
+    await migrate(database);
+    if (config.seed === 'demo') {
+      const { seeded } = await seedDemo(database.db, { today: new Date() });
+      if (seeded) log('Seeded the demo business (Ridgeback Mobile Moto).');
+    }
+    return database;
+  } catch (error) {
+    await database.close();
+    throw error;
+  }
+}
+
+function printWelcome(url: string, config: ServerConfig, engine: string) {
+  const where = engine === 'pglite' ? `PGlite in ${config.dataDir}` : 'PostgreSQL (DATABASE_URL)';
+  console.log(`\nVanbay is running at ${url}  (data: ${where})`);
+  if (config.seed === 'demo') {
+    console.log(`Demo sign-ins (password for all: ${DEMO_PASSWORD}):`);
+    for (const user of demoUsers) console.log(`  ${user.role.padEnd(11)} ${user.email}`);
+  }
+  console.log('Press Ctrl-C to stop.\n');
+}
+
+async function main() {
+  const config = readConfig();
+  const running = await startServer({ config });
+  printWelcome(running.url, config, running.database.engine);
+  const shutdown = (signal: string) => {
+    console.log(`\n${signal}: closing the database and stopping.`);
+    running.stop().then(
+      () => process.exit(0),
+      (error: unknown) => {
+        console.error(error);
+        process.exit(1);
+      },
+    );
+  };
+  process.once('SIGINT', () => shutdown('SIGINT'));
+  process.once('SIGTERM', () => shutdown('SIGTERM'));
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
+  main().catch((error: unknown) => {
+    console.error(error instanceof Error ? error.message : error);
+    process.exit(1);
+  });
+}

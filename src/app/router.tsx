@@ -1,0 +1,42 @@
+import { createBrowserRouter } from 'react-router';
+import type { DataRouter, RouteObject } from 'react-router';
+import { AppFrame } from './layout/app-frame';
+import { PageLoading } from './layout/page-loading';
+import { RouteError } from './layout/route-error';
+import { paths } from './paths';
+
+/**
+ * The frame loads eagerly because every page needs it; each page is its own chunk, fetched when
+ * first visited, so the phone on the van's hotspot downloads only what it opens.
+ */
+export const routes: RouteObject[] = [
+  {
+    path: paths.week,
+    Component: AppFrame,
+    ErrorBoundary: RouteError,
+    children: [
+      {
+        // A failing page is caught inside the frame, so the header and navigation stay usable.
+        ErrorBoundary: RouteError,
+        HydrateFallback: PageLoading,
+        children: [
+          { index: true, lazy: () => import('./routes/week') },
+          { path: paths.jobs, lazy: () => import('./routes/jobs') },
+          { path: paths.customers, lazy: () => import('./routes/customers') },
+          { path: paths.invoices, lazy: () => import('./routes/invoices') },
+          { path: paths.mileage, lazy: () => import('./routes/mileage') },
+          { path: paths.reminders, lazy: () => import('./routes/reminders') },
+          { path: paths.settings, lazy: () => import('./routes/settings') },
+          { path: '*', lazy: () => import('./routes/not-found') },
+        ],
+      },
+    ],
+  },
+];
+
+export type RouterFactory = (routes: RouteObject[]) => DataRouter;
+
+/** Tests pass `createMemoryRouter`; the app uses the browser's history. */
+export function createAppRouter(createRouter: RouterFactory = createBrowserRouter): DataRouter {
+  return createRouter(routes);
+}

@@ -1,0 +1,64 @@
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import path from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createApp } from '../../server/app';
+import { CLIENT_DIR } from '../../server/build-client';
+import type { Database } from '../../server/db/client';
+import { launchBrowser, SCREENSHOT_DIR } from '../helpers/browser';
+import { cloneDatabase } from '../helpers/db';
+
+describe('the dashboard in Chromium', () => {
+  let database: Database;
+  let server: Server;
+  let browser: Browser;
+  let page: Page;
+  let url: string;
+  beforeAll(async () => {
+    database = await cloneDatabase('seeded');
+    server = createApp({ db: database.db, clientDir: CLIENT_DIR }).listen(0, '127.0.0.1');
+    await new Promise((resolve) => server.once('listening', resolve));
+    url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+    browser = await launchBrowser();
+    page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await new Promise((resolve) => server.close(resolve));
+    await database.close();
+  });
+
+  it('opens on the week page and shows the live API status', async () => {
+    await page.goto(url);
+    await page.getByText('API online').waitFor();
+    expect(await page.getByRole('navigation').getByRole('link').count()).toBeGreaterThanOrEqual(7);
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'week.png'), fullPage: true });
+  });
+
+  it('loads the shipped font, not one from the network', async () => {
+    const fonts = await page.evaluate(async () => {
+      await document.fonts.ready;
+      return [...document.fonts].filter((f) => f.status === 'loaded').map((f) => f.family);
+    });
+    expect(fonts.some((family) => family.includes('Space Grotesk'))).toBe(true);
+  });
+
+  it('moves between sections from the navigation and on a deep link', async () => {
+    await page.getByRole('navigation').getByRole('link', { name: /jobs/i }).click();
+    await page.waitForURL(/\/jobs$/);
+    await page.getByText(/not built yet/i).first().waitFor();
+    await page.goto(`${url}/mileage`);
+    await page.getByRole('heading', { level: 1 }).filter({ hasText: /mileage/i }).waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'mileage.png') });
+  });
+
+  it('says when the API is down instead of showing stale or invented data', async () => {
+    await page.goto(url);
+    await page.getByText('API online').waitFor();
+    await page.route('**/api/health', (route) => route.abort('connectionrefused'));
+    await page.reload();
+    await page.getByText(/API unreachable/).waitFor();
+    await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'week-offline.png') });
+  });
+});

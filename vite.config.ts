@@ -1,0 +1,30 @@
+import { defineConfig } from 'vitest/config';
+import react from '@vitejs/plugin-react';
+import tailwindcss from '@tailwindcss/vite';
+import { CLIENT_OUT_DIR } from './server/config.ts';
+
+
+/** The API's own port while `npm run dev` serves the dashboard on the public one. */
+const devApiPort = Number(process.env.VANBAY_DEV_API_PORT ?? 5181);
+
+export default defineConfig({
+  plugins: [react(), tailwindcss()],
+  build: {
+    outDir: CLIENT_OUT_DIR,
+    emptyOutDir: true,
+  },
+  server: {
+    port: Number(process.env.PORT ?? 5180),
+    strictPort: true,
+    proxy: {
+      '/api': `http://127.0.0.1:${devApiPort}`,
+    },
+  },
+  test: {
+    include: ['tests/**/*.test.{ts,tsx}'],
+    globalSetup: ['tests/helpers/global-setup.ts'],
+    testTimeout: 30_000,
+    hookTimeout: 120_000,
+    restoreMocks: true,
+  },
+});
