@@ -3,7 +3,6 @@ import react from '@vitejs/plugin-react';
 import tailwindcss from '@tailwindcss/vite';
 import { CLIENT_OUT_DIR } from './server/config.ts';
 
-
 /** The API's own port while `npm run dev` serves the dashboard on the public one. */
 const devApiPort = Number(process.env.VANBAY_DEV_API_PORT ?? 5181);
 

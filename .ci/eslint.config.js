@@ -37,7 +37,15 @@ export default tseslint.config(
     rules: {
       'no-restricted-imports': [
         'error',
-        { patterns: [serverOnly, { group: ['**/features/*/**'], message: 'A feature may not import another feature; compose them in app/.' }] },
+        {
+          patterns: [
+            serverOnly,
+            {
+              group: ['**/features/*/**'],
+              message: 'A feature may not import another feature; compose them in app/.',
+            },
+          ],
+        },
       ],
     },
   },
@@ -49,8 +57,14 @@ export default tseslint.config(
         'error',
         {
           patterns: [
-            { group: ['**/server/**', '**/src/**', '**/cli/**'], message: 'shared/ imports only shared/ and small pure libraries.' },
-            { group: ['react', 'react-*', 'express', 'drizzle-orm*', '@electric-sql/*', 'pg', 'node:*'], message: 'shared/ stays pure: no framework or I/O imports.' },
+            {
+              group: ['**/server/**', '**/src/**', '**/cli/**'],
+              message: 'shared/ imports only shared/ and small pure libraries.',
+            },
+            {
+              group: ['react', 'react-*', 'express', 'drizzle-orm*', '@electric-sql/*', 'pg', 'node:*'],
+              message: 'shared/ stays pure: no framework or I/O imports.',
+            },
           ],
         },
       ],

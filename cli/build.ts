@@ -2,7 +2,9 @@
 import { readFileSync } from 'node:fs';
 import { build } from 'esbuild';
 
-const pkg = JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as { version: string };
+const pkg = JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as {
+  version: string;
+};
 
 await build({
   entryPoints: [new URL('./index.ts', import.meta.url).pathname],
@@ -15,5 +17,7 @@ await build({
   legalComments: 'none',
   define: { __VANBAY_VERSION__: JSON.stringify(pkg.version) },
   // Some bundled packages still call require(); give the ESM bundle one.
-  banner: { js: "import { createRequire as __vanbayRequire } from 'node:module'; const require = __vanbayRequire(import.meta.url);" },
+  banner: {
+    js: "import { createRequire as __vanbayRequire } from 'node:module'; const require = __vanbayRequire(import.meta.url);",
+  },
 });

@@ -18,7 +18,11 @@ export function buildProgram(deps: CliDeps) {
       outputError: () => {}, // printed once, in one line, by runCli
     })
     .exitOverride();
-  program.addCommand(healthCommand(deps));
+  for (const command of [healthCommand(deps)]) {
+    // addCommand does not pass the parent's output and exit settings down; without them a
+    // subcommand's bad option would print commander's own text and exit 1 instead of 2.
+    program.addCommand(command.copyInheritedSettings(program));
+  }
   return program;
 }
 

@@ -44,7 +44,7 @@ export function createApp({ db, clock = systemClock, clientDir, log }: AppDeps) 
   }
 
   app.use('/api', express.json({ limit: JSON_BODY_LIMIT, strict: true }));
-  app.use('/api', healthRouter(db));
+  app.use(healthRouter(db));
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route')));
 
   if (clientDir && existsSync(path.join(clientDir, 'index.html'))) {

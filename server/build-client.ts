@@ -10,7 +10,14 @@ import { CLIENT_OUT_DIR, PROJECT_ROOT } from './config';
 
 export const CLIENT_DIR = path.join(PROJECT_ROOT, CLIENT_OUT_DIR);
 
-const CLIENT_INPUTS = ['src', 'shared', 'index.html', 'tailwind.config.ts', 'vite.config.ts', 'package-lock.json'];
+const CLIENT_INPUTS = [
+  'src',
+  'shared',
+  'index.html',
+  'tailwind.config.ts',
+  'vite.config.ts',
+  'package-lock.json',
+];
 
 function newestMtime(entry: string): number {
   if (!existsSync(entry)) return 0;

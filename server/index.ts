@@ -8,7 +8,8 @@ import { pathToFileURL } from 'node:url';
 import { createApp } from './app';
 import { CLIENT_DIR, ensureClientBuilt } from './build-client';
 import { readConfig, type ServerConfig } from './config';
-import { databaseOptionsFromEnv, openDatabase, type Database } from './db/client';
+import { lockDataDir } from './data-dir-lock';
+import { databaseOptions, openDatabase, type Database } from './db/client';
 import { migrate } from './db/migrate';
 import { seedDemo } from './db/seed';
 import { DEMO_PASSWORD, demoUsers } from './db/seed-data';
@@ -32,21 +33,31 @@ export async function startServer({
   serveClient = true,
   log = (line) => console.log(line),
 }: StartOptions = {}): Promise<RunningServer> {
+  const unlock = config.databaseUrl ? () => {} : lockDataDir(config.dataDir);
   // The dashboard build and the database start-up are independent: run them side by side.
-  const [database] = await Promise.all([
+  const [opened, built] = await Promise.allSettled([
     openAndPrepare(config, log),
     serveClient ? ensureClientBuilt(log) : Promise.resolve(false),
   ]);
+  if (opened.status === 'rejected' || built.status === 'rejected') {
+    if (opened.status === 'fulfilled') await opened.value.close();
+    unlock();
+    throw opened.status === 'rejected' ? opened.reason : (built as PromiseRejectedResult).reason;
+  }
+  const database = opened.value;
+  let server: Server;
   const app = createApp({
     db: database.db,
     ...(serveClient ? { clientDir: CLIENT_DIR } : {}),
     ...(process.env.VANBAY_REQUEST_LOG === 'off' ? {} : { log }),
   });
-  const server = await new Promise<Server>((resolve, reject) => {
-    const listening = app.listen(config.port, config.host, (error?: Error) =>
-      error ? reject(error) : resolve(listening),
-    );
-  });
+  try {
+    server = await listen(app, config);
+  } catch (error) {
+    await database.close();
+    unlock();
+    throw error;
+  }
   const { port } = server.address() as AddressInfo;
   const url = `http://localhost:${port}`;
 
@@ -60,12 +71,29 @@ export async function startServer({
         setTimeout(() => server.closeAllConnections(), 3_000).unref();
       });
       await database.close();
+      unlock();
     })());
   return { url, server, database, stop };
 }
 
+function listen(app: ReturnType<typeof createApp>, config: ServerConfig): Promise<Server> {
+  return new Promise<Server>((resolve, reject) => {
+    const listening = app.listen(config.port, config.host, (error?: Error) => {
+      if (!error) return resolve(listening);
+      const code = (error as NodeJS.ErrnoException).code;
+      reject(
+        code === 'EADDRINUSE'
+          ? new Error(
+              `Port ${config.port} is already in use: is Vanbay already running? Set PORT to use another.`,
+            )
+          : error,
+      );
+    });
+  });
+}
+
 async function openAndPrepare(config: ServerConfig, log: (line: string) => void): Promise<Database> {
-  const database = await openDatabase(databaseOptionsFromEnv(process.env, config.dataDir));
+  const database = await openDatabase(databaseOptions(config));
   try {
     await migrate(database);
     if (config.seed === 'demo') {

@@ -25,10 +25,7 @@ export function divRoundHalfUp(numerator: bigint, denominator: bigint): number {
 
 export function lineTotalCents(line: Omit<MoneyLine, 'taxable'>): number {
   const markup = BigInt(10_000 + (line.markupBps ?? 0));
-  return divRoundHalfUp(
-    BigInt(line.quantityMilli) * BigInt(line.unitPriceCents) * markup,
-    1000n * 10_000n,
-  );
+  return divRoundHalfUp(BigInt(line.quantityMilli) * BigInt(line.unitPriceCents) * markup, 1000n * 10_000n);
 }
 
 /** Tax on an amount at a rate in parts per million (62500 = 6.25 %). */

@@ -2,6 +2,7 @@
  * VIN check digit per 49 CFR 565.15: letters transliterate to numbers, each position has a
  * weight, the sum of products mod 11 is the check digit (10 is written X) in position 9.
  */
+// prettier-ignore
 const TRANSLITERATION: Record<string, number> = {
   A: 1, B: 2, C: 3, D: 4, E: 5, F: 6, G: 7, H: 8,
   J: 1, K: 2, L: 3, M: 4, N: 5, P: 7, R: 9,

@@ -44,7 +44,9 @@ export function healthCommand(deps: CliDeps) {
       } else if (result.ok) {
         deps.stdout.write(`${theme.pass('online')}  ${result.server}\n`);
       } else {
-        deps.stdout.write(`${theme.fail('unreachable')}  ${result.server}  ${theme.muted(result.problem ?? '')}\n`);
+        deps.stdout.write(
+          `${theme.fail('unreachable')}  ${result.server}  ${theme.muted(result.problem ?? '')}\n`,
+        );
       }
       if (!result.ok) process.exitCode = 1;
     });

@@ -23,8 +23,7 @@ export interface Database {
 }
 
 export type DatabaseOptions =
-  | { engine: 'pglite'; dataDir?: string; loadDataDir?: Blob }
-  | { engine: 'postgres'; url: string };
+  { engine: 'pglite'; dataDir?: string; loadDataDir?: Blob } | { engine: 'postgres'; url: string };
 
 /** Wraps an open PGlite instance (a data dir, an in-memory clone in tests). */
 export function fromPglite(client: PGlite): Database {
@@ -47,10 +46,9 @@ export async function openDatabase(options: DatabaseOptions): Promise<Database> 
 }
 
 /** DATABASE_URL wins; otherwise PGlite in the data dir. */
-export function databaseOptionsFromEnv(env: NodeJS.ProcessEnv, dataDir: string): DatabaseOptions {
-  const url = env.DATABASE_URL?.trim();
-  if (url) return { engine: 'postgres', url };
-  return { engine: 'pglite', dataDir: `${dataDir}/pg` };
+export function databaseOptions(config: { databaseUrl: string | null; dataDir: string }): DatabaseOptions {
+  if (config.databaseUrl) return { engine: 'postgres', url: config.databaseUrl };
+  return { engine: 'pglite', dataDir: `${config.dataDir}/pg` };
 }
 
 /** Rows of a raw SQL query; PGlite and node-postgres both answer with `{ rows }`. */

@@ -70,7 +70,10 @@ export const businesses = pgTable(
     ownerName: text().notNull(),
     email: text().notNull(),
     phone: text(),
-    addressLines: text().array().notNull().default(sql`'{}'::text[]`),
+    addressLines: text()
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     timezone: text().notNull().default('America/Denver'),
     currency: text().notNull().default('USD'),
     labourRateCents: integer().notNull(),
@@ -100,7 +103,10 @@ export const customers = pgTable(
     name: text().notNull(),
     email: text(),
     phone: text(),
-    addressLines: text().array().notNull().default(sql`'{}'::text[]`),
+    addressLines: text()
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     town: text(),
     notes: text(),
     archivedAt: tstz(),
@@ -583,7 +589,9 @@ export const outbox = pgTable(
     subject: text().notNull(),
     bodyText: text().notNull(),
     /** `[{ filename, contentType, sizeBytes }]`: what was attached, not the bytes. */
-    attachments: jsonb().notNull().default(sql`'[]'::jsonb`),
+    attachments: jsonb()
+      .notNull()
+      .default(sql`'[]'::jsonb`),
     status: mailStatusEnum().notNull().default('queued'),
     attempts: integer().notNull().default(0),
     lastError: text(),

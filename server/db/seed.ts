@@ -348,7 +348,8 @@ function planJobs(today: Date, rng: ReturnType<typeof prng>): PlannedJob[] {
     const count = age < 0 ? 1 : age % 4 === 0 ? 2 : 1;
     for (let n = 0; n < count; n += 1) {
       const machine = machines[turn % machines.length]!;
-      const story = storiesByKind[machine.kind][Math.floor(turn / machines.length) % storiesByKind[machine.kind].length]!;
+      const story =
+        storiesByKind[machine.kind][Math.floor(turn / machines.length) % storiesByKind[machine.kind].length]!;
       turn += 1;
       planned.push({
         day,
@@ -365,7 +366,8 @@ function planJobs(today: Date, rng: ReturnType<typeof prng>): PlannedJob[] {
   // Statuses by age, then the special cases placed deterministically.
   for (const job of planned) {
     job.status = statusForAge(job.ageDays, job.hour);
-    if (job.status === 'paid') job.payment = job.ageDays % 3 === 0 ? 'card' : job.ageDays % 3 === 1 ? 'cash' : 'cheque';
+    if (job.status === 'paid')
+      job.payment = job.ageDays % 3 === 0 ? 'card' : job.ageDays % 3 === 1 ? 'cash' : 'cheque';
   }
   // The last few days before today walk back through the workshop stages, newest first.
   const lastDays = planned.filter((job) => job.ageDays >= 1).reverse();
@@ -382,7 +384,9 @@ function planJobs(today: Date, rng: ReturnType<typeof prng>): PlannedJob[] {
   partPaid.status = 'invoiced';
   partPaid.payment = 'part';
   // The two stories the demo must show whatever the rotation: a failing hold and a clogged filter.
-  const recent = planned.filter((job) => job.ageDays >= 1 && job.ageDays <= 8 && job.machine.kind !== 'small_engine');
+  const recent = planned.filter(
+    (job) => job.ageDays >= 1 && job.ageDays <= 8 && job.machine.kind !== 'small_engine',
+  );
   recent[0]!.story = 'hold-fail';
   recent[1]!.story = 'clogged-filter';
   return planned;
@@ -414,8 +418,10 @@ function statusTrail(status: JobStatus): JobStatus[] {
 
 const storyDiagnosis: Record<JobStory, string> = {
   'hold-fail': 'Pressure fell steadily after the pump stopped: the pump check valve is leaking back.',
-  'clogged-filter': 'Pressure dipped below spec under load and flow was weak: restricted fuel filter and strainer.',
-  'no-prime-pump': 'Battery voltage at the pump connector during prime but the pump did not run: pump failed.',
+  'clogged-filter':
+    'Pressure dipped below spec under load and flow was weak: restricted fuel filter and strainer.',
+  'no-prime-pump':
+    'Battery voltage at the pump connector during prime but the pump did not run: pump failed.',
   'no-prime-relay': 'No voltage at the pump connector during prime; traced to a failed pump relay.',
   'low-voltage': 'Pump saw well under battery voltage; corroded ground at the frame.',
   'weak-battery': 'Battery at about a quarter charge after rest; would not hold a charge.',
@@ -463,7 +469,10 @@ function storyLines(story: JobStory, machine: DemoMachine): SeedLine[] {
   const partNo = (suffix: string) => `${machine.make.slice(0, 3).toUpperCase()}-${suffix}`;
   switch (story) {
     case 'hold-fail':
-      return [labour(1.5, 'Fuel delivery check and pump replacement'), part('Fuel pump assembly', 18_900, partNo('FP210'))];
+      return [
+        labour(1.5, 'Fuel delivery check and pump replacement'),
+        part('Fuel pump assembly', 18_900, partNo('FP210')),
+      ];
     case 'clogged-filter':
       return [
         labour(1, 'Fuel delivery check; filter and strainer replacement'),
@@ -471,15 +480,28 @@ function storyLines(story: JobStory, machine: DemoMachine): SeedLine[] {
         part('In-tank fuel strainer', 1_875, partNo('ST017')),
       ];
     case 'no-prime-pump':
-      return [labour(1.25, 'No-prime diagnosis and pump replacement'), part('Fuel pump', 16_450, partNo('FP118'))];
+      return [
+        labour(1.25, 'No-prime diagnosis and pump replacement'),
+        part('Fuel pump', 16_450, partNo('FP118')),
+      ];
     case 'no-prime-relay':
-      return [labour(0.75, 'No-prime diagnosis; circuit traced'), part('Fuel pump relay', 3_200, partNo('RL009'))];
+      return [
+        labour(0.75, 'No-prime diagnosis; circuit traced'),
+        part('Fuel pump relay', 3_200, partNo('RL009')),
+      ];
     case 'low-voltage':
-      return [labour(1, 'Voltage-drop test and ground repair'), { ...part('Ring terminals and heat-shrink', 650, 'SUP-RT6'), kind: 'supplies' }];
+      return [
+        labour(1, 'Voltage-drop test and ground repair'),
+        { ...part('Ring terminals and heat-shrink', 650, 'SUP-RT6'), kind: 'supplies' },
+      ];
     case 'weak-battery':
       return [labour(0.5, 'Battery and charging test'), part('Battery, AGM 12 V', 11_900, partNo('BT14L'))];
     case 'service':
-      return [labour(0.8, 'Season service'), part('Oil and filter kit', 4_800, partNo('SV100')), part('Fuel stabiliser', 1_100, 'SUP-FS1')];
+      return [
+        labour(0.8, 'Season service'),
+        part('Oil and filter kit', 4_800, partNo('SV100')),
+        part('Fuel stabiliser', 1_100, 'SUP-FS1'),
+      ];
     case 'low-compression':
       return [labour(0.6, 'Compression test and report')];
     case 'stale-fuel':
@@ -514,7 +536,13 @@ interface SeedStep {
   answer: Record<string, unknown>;
   verdict: Verdict | null;
   reason: string;
-  readings: { quantity: 'pressure' | 'voltage' | 'flow' | 'compression' | 'duration'; psi?: number; value?: number; unit?: string; atSec: number }[];
+  readings: {
+    quantity: 'pressure' | 'voltage' | 'flow' | 'compression' | 'duration';
+    psi?: number;
+    value?: number;
+    unit?: string;
+    atSec: number;
+  }[];
 }
 
 /**
@@ -526,7 +554,12 @@ async function seedCheck(tx: Tx, input: CheckInput) {
   const spec = machine.specs ?? GENERIC_SPECS;
   const steps = checkSteps(story, spec, rng);
   if (steps.length === 0) return;
-  const procedureKey = story === 'weak-battery' ? 'battery-charging' : story === 'low-compression' ? 'compression' : 'fuel-delivery';
+  const procedureKey =
+    story === 'weak-battery'
+      ? 'battery-charging'
+      : story === 'low-compression'
+        ? 'compression'
+        : 'fuel-delivery';
   const recorded = input.finished ? steps : steps.slice(0, Math.ceil(steps.length / 2));
   const worst = worstVerdict(recorded.map((s) => s.verdict));
   const [run] = await tx
@@ -634,7 +667,16 @@ function running(spec: DemoSpecs, idle: number, snap: number, held: number): See
   const fails = low < spec.pressureMinPsi;
   return {
     key: 'running-pressure',
-    answer: { kind: 'series', quantity: 'pressure', unit: 'psi', points: [{ phase: 'idle', psi: idle }, { phase: 'snap', psi: snap }, { phase: 'held', psi: held }] },
+    answer: {
+      kind: 'series',
+      quantity: 'pressure',
+      unit: 'psi',
+      points: [
+        { phase: 'idle', psi: idle },
+        { phase: 'snap', psi: snap },
+        { phase: 'held', psi: held },
+      ],
+    },
     verdict: fails ? 'fail' : 'pass',
     reason: fails
       ? `Dipped to ${low} psi under load, below the ${spec.pressureMinPsi}–${spec.pressureMaxPsi} psi band: running lean.`
@@ -650,7 +692,9 @@ function flow(spec: DemoSpecs, ml: number, seconds: number): SeedStep {
     key: 'flow-volume',
     answer: { kind: 'flow', ml, seconds },
     verdict: fails ? 'fail' : 'pass',
-    reason: fails ? `${lph} L/h, under the ${spec.flowMinLph} L/h minimum: restriction.` : `${lph} L/h: strong steady flow.`,
+    reason: fails
+      ? `${lph} L/h, under the ${spec.flowMinLph} L/h minimum: restriction.`
+      : `${lph} L/h: strong steady flow.`,
     readings: [{ quantity: 'flow', value: lph, unit: 'L/h', atSec: seconds }],
   };
 }
@@ -678,13 +722,24 @@ function checkSteps(story: JobStory, spec: DemoSpecs, rng: ReturnType<typeof prn
     case 'hold-fail':
       return [battery(bat), prime(true), hold(spec, mid, 2.2), running(spec, mid, mid - 1, mid - 0.5)];
     case 'clogged-filter':
-      return [battery(bat), prime(true), hold(spec, mid, 0.1), running(spec, mid - 1, spec.pressureMinPsi - 6, spec.pressureMinPsi - 9), flow(spec, 95, 15)];
+      return [
+        battery(bat),
+        prime(true),
+        hold(spec, mid, 0.1),
+        running(spec, mid - 1, spec.pressureMinPsi - 6, spec.pressureMinPsi - 9),
+        flow(spec, 95, 15),
+      ];
     case 'no-prime-pump':
       return [battery(bat), prime(false), pumpVoltage(rng.round(bat - 0.2, 2), bat)];
     case 'no-prime-relay':
       return [battery(bat), prime(false), pumpVoltage(0, bat)];
     case 'low-voltage':
-      return [battery(bat), prime(true, 2), pumpVoltage(rng.round(bat - 2.4, 2), bat), running(spec, mid - 2, spec.pressureMinPsi - 3, spec.pressureMinPsi - 1)];
+      return [
+        battery(bat),
+        prime(true, 2),
+        pumpVoltage(rng.round(bat - 2.4, 2), bat),
+        running(spec, mid - 2, spec.pressureMinPsi - 3, spec.pressureMinPsi - 1),
+      ];
     case 'weak-battery':
       return [battery(12.05)];
     case 'stale-fuel':
@@ -766,7 +821,9 @@ async function seedServiceIntervals(
     if (monthsAgo < 12) continue;
     // Past its months limit: the first such machine has had its reminder mailed, the rest wait.
     const fuelFilter = intervals[0]!;
-    const dueOn = isoDate(new Date(Date.UTC(lastDone.getUTCFullYear(), lastDone.getUTCMonth() + fuelFilter.everyMonths!, 10)));
+    const dueOn = isoDate(
+      new Date(Date.UTC(lastDone.getUTCFullYear(), lastDone.getUTCMonth() + fuelFilter.everyMonths!, 10)),
+    );
     const customer = demoCustomers.find((c) => c.key === machine.customerKey)!;
     const mailed = i === 0;
     const [mail] = mailed
@@ -830,7 +887,11 @@ async function seedInvoice(tx: Tx, input: InvoiceInput) {
     })
     .returning({ number: t.invoiceCounters.lastNumber });
   const paidCents =
-    input.payment === 'none' ? 0 : input.payment === 'part' ? Math.round(totals.totalCents / 2) : totals.totalCents;
+    input.payment === 'none'
+      ? 0
+      : input.payment === 'part'
+        ? Math.round(totals.totalCents / 2)
+        : totals.totalCents;
   const status = paidCents === 0 ? 'issued' : paidCents < totals.totalCents ? 'part_paid' : 'paid';
   const [invoice] = await tx
     .insert(t.invoices)

@@ -48,11 +48,13 @@ describe('the built vanbay binary', () => {
     expect(JSON.parse(down.stdout).ok).toBe(false);
   });
 
-  it('exits 2 with one line on stderr and no stack for an unknown option', async () => {
-    const result = await execa('node', [BIN, '--no-such-flag'], { reject: false });
-    expect(result.exitCode).toBe(2);
-    expect(result.stdout).toBe('');
-    expect(result.stderr.trim().split('\n')).toHaveLength(1);
-    expect(result.stderr).not.toMatch(/at .*\.js:\d+/);
+  it('exits 2 with one line on stderr and no stack for an unknown option, on any command', async () => {
+    for (const argv of [['--no-such-flag'], ['health', '--no-such-flag'], ['no-such-command']]) {
+      const result = await execa('node', [BIN, ...argv], { reject: false });
+      expect(result.exitCode, argv.join(' ')).toBe(2);
+      expect(result.stdout).toBe('');
+      expect(result.stderr.trim().split('\n')).toHaveLength(1);
+      expect(result.stderr).not.toMatch(/at .*\.js:\d+/);
+    }
   });
 });

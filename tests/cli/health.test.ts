@@ -37,7 +37,7 @@ describe('vanbay health', () => {
   });
 
   it('exits 2 with one line on stderr for bad input, and prints nothing on stdout', async () => {
-    for (const argv of [['--bogus'], ['--server', 'not a url', 'health']]) {
+    for (const argv of [['--bogus'], ['health', '--bogus'], ['--server', 'not a url', 'health']]) {
       const io = fakeDeps(answering(200, { ok: true }));
       const code = await runCli(argv, io.deps);
       expect(code).toBe(2);

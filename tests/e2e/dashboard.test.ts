@@ -47,9 +47,15 @@ describe('the dashboard in Chromium', () => {
   it('moves between sections from the navigation and on a deep link', async () => {
     await page.getByRole('navigation').getByRole('link', { name: /jobs/i }).click();
     await page.waitForURL(/\/jobs$/);
-    await page.getByText(/not built yet/i).first().waitFor();
+    await page
+      .getByText(/not built yet/i)
+      .first()
+      .waitFor();
     await page.goto(`${url}/mileage`);
-    await page.getByRole('heading', { level: 1 }).filter({ hasText: /mileage/i }).waitFor();
+    await page
+      .getByRole('heading', { level: 1 })
+      .filter({ hasText: /mileage/i })
+      .waitFor();
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'mileage.png') });
   });
 

@@ -15,7 +15,10 @@ export function ensureChromium(): void {
     console.error("Installing Debian's chromium for the browser tests (apt-get)…");
     const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
     execFileSync('apt-get', ['update', '-qq'], { stdio: ['ignore', 'ignore', 'inherit'], env });
-    execFileSync('apt-get', ['install', '-y', '-qq', 'chromium'], { stdio: ['ignore', 'ignore', 'inherit'], env });
+    execFileSync('apt-get', ['install', '-y', '-qq', 'chromium'], {
+      stdio: ['ignore', 'ignore', 'inherit'],
+      env,
+    });
     if (existsSync(CHROMIUM_PATH)) return;
   }
   console.error('The browser tests need Chromium: run `sudo apt-get install -y chromium` and try again.');

@@ -28,7 +28,9 @@ describe('migrations on an empty database', () => {
     const actual = new Set(columns.map((row) => `${row.table_name}.${row.column_name}`));
     // The schema names columns in camelCase; drizzle's `casing: 'snake_case'` maps them in SQL.
     const snake = (name: string) => name.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
-    const expected = tables.flatMap((table) => table.columns.map((column) => `${table.name}.${snake(column.name)}`));
+    const expected = tables.flatMap((table) =>
+      table.columns.map((column) => `${table.name}.${snake(column.name)}`),
+    );
     expect(expected.length).toBeGreaterThan(150);
     expect(expected.filter((name) => !actual.has(name))).toEqual([]);
   });
@@ -43,12 +45,18 @@ describe('migrations on an empty database', () => {
   });
 
   it('record each migration of the journal once, and a second run changes nothing', async () => {
-    const journal = JSON.parse(readFileSync(path.join(MIGRATIONS_FOLDER, 'meta', '_journal.json'), 'utf8')) as {
+    const journal = JSON.parse(
+      readFileSync(path.join(MIGRATIONS_FOLDER, 'meta', '_journal.json'), 'utf8'),
+    ) as {
       entries: unknown[];
     };
     const count = async () =>
-      (await queryRows<{ n: number }>(database.db, sql`select count(*)::int as n from drizzle.__drizzle_migrations`))[0]!
-        .n;
+      (
+        await queryRows<{ n: number }>(
+          database.db,
+          sql`select count(*)::int as n from drizzle.__drizzle_migrations`,
+        )
+      )[0]!.n;
     expect(await count()).toBe(journal.entries.length);
     await migrate(database);
     expect(await count()).toBe(journal.entries.length);

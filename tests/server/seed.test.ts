@@ -11,16 +11,36 @@ import { cloneDatabase } from '../helpers/db';
 import { SEED_TODAY } from '../helpers/fixtures';
 
 const TABLES = [
-  'businesses', 'users', 'customers', 'machines', 'jobs', 'job_events', 'check_runs', 'check_steps',
-  'readings', 'line_items', 'estimates', 'invoice_counters', 'invoices', 'invoice_lines', 'payments',
-  'trips', 'service_intervals', 'reminders', 'outbox', 'audit_events', 'attachments',
+  'businesses',
+  'users',
+  'customers',
+  'machines',
+  'jobs',
+  'job_events',
+  'check_runs',
+  'check_steps',
+  'readings',
+  'line_items',
+  'estimates',
+  'invoice_counters',
+  'invoices',
+  'invoice_lines',
+  'payments',
+  'trips',
+  'service_intervals',
+  'reminders',
+  'outbox',
+  'audit_events',
+  'attachments',
 ];
 
 /** Every row of every table, in a stable order, as JSON text per table. */
 async function snapshot(database: Database) {
   const parts: Record<string, string> = {};
   for (const table of TABLES) {
-    parts[table] = JSON.stringify(await queryRows(database.db, sql.raw(`select * from ${table} order by 1, 2`)));
+    parts[table] = JSON.stringify(
+      await queryRows(database.db, sql.raw(`select * from ${table} order by 1, 2`)),
+    );
   }
   return parts;
 }
@@ -66,7 +86,10 @@ describe('demo seed', () => {
     for (const user of users) expect(await verifyPassword(DEMO_PASSWORD, user.passwordHash)).toBe(true);
     expect(await verifyPassword('wrong-password', users[0]!.passwordHash)).toBe(false);
     const customer = users[3]!;
-    const [linked] = await first.db.select().from(t.customers).where(sql`${t.customers.id} = ${customer.customerId}`);
+    const [linked] = await first.db
+      .select()
+      .from(t.customers)
+      .where(sql`${t.customers.id} = ${customer.customerId}`);
     expect(linked?.email).toBe('jules@example.test');
   });
 
@@ -96,25 +119,36 @@ describe('demo seed', () => {
   });
 
   it('includes a failing pressure hold and a clogged-filter case among the check runs', async () => {
-    const failedHolds = await rows<{ job_id: number; points: number }>(first, sql`
+    const failedHolds = await rows<{ job_id: number; points: number }>(
+      first,
+      sql`
       select r.job_id, count(rd.id)::int as points
       from check_steps s join check_runs r on r.id = s.check_run_id
       left join readings rd on rd.check_run_id = r.id and rd.step_key = s.step_key
       where s.step_key = 'static-pressure-hold' and s.verdict = 'fail'
-      group by r.job_id`);
+      group by r.job_id`,
+    );
     expect(failedHolds.length).toBeGreaterThanOrEqual(1);
     expect(failedHolds[0]!.points).toBeGreaterThanOrEqual(5); // a pressure-over-time series
 
-    const cloggedFilter = await rows<{ job_id: number }>(first, sql`
+    const cloggedFilter = await rows<{ job_id: number }>(
+      first,
+      sql`
       select r.job_id from check_runs r
       join check_steps run on run.check_run_id = r.id and run.step_key = 'running-pressure' and run.verdict = 'fail'
       join check_steps flow on flow.check_run_id = r.id and flow.step_key = 'flow-volume' and flow.verdict = 'fail'
-      join line_items li on li.job_id = r.job_id and li.description ilike '%filter%'`);
+      join line_items li on li.job_id = r.job_id and li.description ilike '%filter%'`,
+    );
     expect(cloggedFilter.length).toBeGreaterThanOrEqual(1);
   });
 
   it('stores pressure readings in kPa and keeps what the mechanic typed', async () => {
-    const [reading] = await rows<{ value: number; unit: string; entered_value: number; entered_unit: string }>(
+    const [reading] = await rows<{
+      value: number;
+      unit: string;
+      entered_value: number;
+      entered_unit: string;
+    }>(
       first,
       sql`select value, unit, entered_value, entered_unit from readings where quantity = 'pressure' limit 1`,
     );
@@ -148,10 +182,13 @@ describe('demo seed', () => {
   });
 
   it('logs a trip for every day a job was worked, with odometers that only go up', async () => {
-    const missing = await rows<{ day: string }>(first, sql`
+    const missing = await rows<{ day: string }>(
+      first,
+      sql`
       select distinct (j.scheduled_at at time zone 'UTC')::date::text as day from jobs j
       where j.status not in ('booked', 'cancelled')
-      except select trip_date::text from trips`);
+      except select trip_date::text from trips`,
+    );
     expect(missing).toEqual([]);
     const trips = await first.db.select().from(t.trips).orderBy(t.trips.startedAt);
     for (const [i, trip] of trips.entries()) {

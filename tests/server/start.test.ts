@@ -1,4 +1,4 @@
-import { mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { PGlite } from '@electric-sql/pglite';
@@ -67,7 +67,9 @@ describe('the server process', () => {
         env: { VANBAY_DATA_DIR: emptyDir, PORT: '0', HOST: '127.0.0.1', VANBAY_SEED: 'none' },
         reject: false,
       });
-      await new Promise<void>((resolve) => child.stdout!.on('data', (c: Buffer) => /running at/.test(String(c)) && resolve()));
+      await new Promise<void>((resolve) =>
+        child.stdout!.on('data', (c: Buffer) => /running at/.test(String(c)) && resolve()),
+      );
       child.kill('SIGTERM');
       const result = await child;
       expect(result.stdout).not.toMatch(/Demo sign-ins/);
@@ -77,5 +79,40 @@ describe('the server process', () => {
     } finally {
       rmSync(emptyDir, { recursive: true, force: true });
     }
+  }, 60_000);
+});
+
+describe('one server per data dir', () => {
+  const dir = mkdtempSync(path.join(tmpdir(), 'vanbay-lock-'));
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+  const env = {
+    VANBAY_DATA_DIR: dir,
+    PORT: '0',
+    HOST: '127.0.0.1',
+    VANBAY_SEED: 'none',
+    VANBAY_REQUEST_LOG: 'off',
+  };
+  const run = () =>
+    execa('node', ['node_modules/tsx/dist/cli.mjs', 'server/index.ts'], { env, reject: false });
+
+  it('takes over a lock left by a process that is gone, and refuses a second live server', async () => {
+    // A pid far above Linux's default pid_max (4 194 304) cannot belong to a live process.
+    writeFileSync(path.join(dir, 'server.pid'), '99999999\n');
+    const first = run();
+    await new Promise<void>((resolve) =>
+      first.stdout!.on('data', (c: Buffer) => /running at/.test(String(c)) && resolve()),
+    );
+    // tsx runs the server in a child process, so the lock names that child, not `first.pid`.
+    const holder = Number(readFileSync(path.join(dir, 'server.pid'), 'utf8').trim());
+    expect(holder).not.toBe(99_999_999);
+    expect(() => process.kill(holder, 0)).not.toThrow();
+
+    const second = await run();
+    expect(second.exitCode).toBe(1);
+    expect(second.stderr.trim()).toMatch(/^Another Vanbay server \(pid \d+\) is using/);
+
+    first.kill('SIGTERM');
+    expect((await first).exitCode).toBe(0);
+    expect(existsSync(path.join(dir, 'server.pid'))).toBe(false);
   }, 60_000);
 });

@@ -20,10 +20,16 @@ describe('money in integer cents', () => {
   it('agrees with decimal.js ROUND_HALF_UP (halves away from zero) for any quotient', () => {
     // decimal.js: a general-purpose exact decimal library, the cross-check REFERENCES.md names.
     fc.assert(
-      fc.property(fc.bigInt({ min: -(10n ** 15n), max: 10n ** 15n }), fc.bigInt({ min: 1n, max: 10n ** 9n }), (n, d) => {
-        const expected = new Decimal(n.toString()).div(d.toString()).toDecimalPlaces(0, Decimal.ROUND_HALF_UP);
-        return divRoundHalfUp(n, d) === expected.toNumber();
-      }),
+      fc.property(
+        fc.bigInt({ min: -(10n ** 15n), max: 10n ** 15n }),
+        fc.bigInt({ min: 1n, max: 10n ** 9n }),
+        (n, d) => {
+          const expected = new Decimal(n.toString())
+            .div(d.toString())
+            .toDecimalPlaces(0, Decimal.ROUND_HALF_UP);
+          return divRoundHalfUp(n, d) === expected.toNumber();
+        },
+      ),
     );
   });
 
@@ -45,7 +51,11 @@ describe('money in integer cents', () => {
           const exact = lines.reduce(
             (s, l) =>
               s.plus(
-                new Decimal(l.quantityMilli).times(l.unitPriceCents).times(10_000 + l.markupBps).div(10_000_000).toDecimalPlaces(0, Decimal.ROUND_HALF_UP),
+                new Decimal(l.quantityMilli)
+                  .times(l.unitPriceCents)
+                  .times(10_000 + l.markupBps)
+                  .div(10_000_000)
+                  .toDecimalPlaces(0, Decimal.ROUND_HALF_UP),
               ),
             new Decimal(0),
           );
