@@ -8,7 +8,7 @@ import { createHash } from 'node:crypto';
 import { eq, sql } from 'drizzle-orm';
 import { invoiceTotals, type MoneyLine } from '../../shared/money';
 import { withCheckDigit } from '../../shared/vin';
-import type { JobStatus, LineItemKind } from '../../shared/api/jobs';
+import { JOB_STATUSES, type JobStatus, type LineItemKind } from '../../shared/api/jobs';
 import type { Verdict } from '../../shared/api/readings';
 import type { ServiceItem } from '../../shared/api/reminders';
 import { hashPassword } from '../auth/password';
@@ -400,16 +400,8 @@ function statusForAge(age: number, hour: number): JobStatus {
   return 'paid';
 }
 
-const TRAIL: JobStatus[] = [
-  'booked',
-  'on_site',
-  'diagnosing',
-  'awaiting_approval',
-  'repairing',
-  'complete',
-  'invoiced',
-  'paid',
-];
+/** The normal path of a job, which JOB_STATUSES lists in order. */
+const TRAIL = JOB_STATUSES.filter((status) => status !== 'cancelled');
 
 function statusTrail(status: JobStatus): JobStatus[] {
   if (status === 'cancelled') return ['booked', 'cancelled'];
