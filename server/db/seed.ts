@@ -5,6 +5,7 @@
  * alone). Written in one transaction: a crash mid-seed leaves nothing half-made.
  */
 import { createHash } from 'node:crypto';
+import { TZDate } from '@date-fns/tz';
 import { eq, sql } from 'drizzle-orm';
 import { invoiceTotals, type MoneyLine } from '../../shared/money';
 import { withCheckDigit } from '../../shared/vin';
@@ -65,12 +66,26 @@ function prng(seed: number) {
   };
 }
 
-function utcDay(date: Date): Date {
-  return new Date(Date.UTC(date.getUTCFullYear(), date.getUTCMonth(), date.getUTCDate()));
+/**
+ * Calendar days are held as UTC midnight of the date on the business's wall calendar, so date
+ * arithmetic never crosses a DST change; `at` turns a day and a wall-clock time into the instant.
+ */
+function localDay(instant: Date): Date {
+  const local = new TZDate(instant, demoBusiness.timezone);
+  return new Date(Date.UTC(local.getFullYear(), local.getMonth(), local.getDate()));
 }
 const addDays = (day: Date, days: number) => new Date(day.getTime() + days * DAY_MS);
 const at = (day: Date, hours: number, minutes = 0) =>
-  new Date(day.getTime() + (hours * 60 + minutes) * 60_000);
+  new Date(
+    new TZDate(
+      day.getUTCFullYear(),
+      day.getUTCMonth(),
+      day.getUTCDate(),
+      hours,
+      minutes,
+      demoBusiness.timezone,
+    ).getTime(),
+  );
 const isoDate = (day: Date) => day.toISOString().slice(0, 10);
 
 export interface SeedResult {
@@ -92,7 +107,7 @@ export async function seedDemo(db: Db, { today }: { today: Date }): Promise<Seed
 
   return db.transaction(async (tx) => {
     // Rows that describe the business itself are dated as if set up six weeks before today.
-    const setUpAt = at(addDays(utcDay(today), -45), 8);
+    const setUpAt = at(addDays(localDay(today), -45), 8);
     const stamps = { createdAt: setUpAt, updatedAt: setUpAt };
     const [business] = await tx
       .insert(t.businesses)
@@ -155,7 +170,7 @@ export async function seedDemo(db: Db, { today }: { today: Date }): Promise<Seed
           otherId: machine.otherId ?? null,
           meterUnit: machine.meterUnit,
           meterReading: machine.meterReading,
-          meterReadAt: at(addDays(utcDay(today), -45), 12),
+          meterReadAt: at(addDays(localDay(today), -45), 12),
           fuelPressureMinKpa: specs ? psiToKpa(specs.pressureMinPsi) : null,
           fuelPressureMaxKpa: specs ? psiToKpa(specs.pressureMaxPsi) : null,
           holdMaxDropKpa: specs ? psiToKpa(specs.holdMaxDropPsi) : null,
@@ -168,9 +183,9 @@ export async function seedDemo(db: Db, { today }: { today: Date }): Promise<Seed
       machineIds.set(machine.key, row!.id);
     }
 
-    await seedServiceIntervals(tx, businessId, machineIds, utcDay(today), setUpAt);
+    await seedServiceIntervals(tx, businessId, machineIds, localDay(today), setUpAt);
 
-    const plan = planJobs(utcDay(today), rng);
+    const plan = planJobs(localDay(today), rng);
     let vanOdometer = 48_210.4;
     let lastTripDay = '';
     for (const planned of plan) {

@@ -118,6 +118,18 @@ describe('demo seed', () => {
     }
   });
 
+  it("books jobs in working hours on the business's own clock, Monday to Saturday", async () => {
+    const hours = await rows<{ hour: number; dow: number }>(
+      first,
+      sql`
+      select extract(hour from j.scheduled_at at time zone b.timezone)::int as hour,
+             extract(dow from j.scheduled_at at time zone b.timezone)::int as dow
+      from jobs j join businesses b on b.id = j.business_id`,
+    );
+    expect(hours.filter(({ hour }) => hour < 8 || hour > 17)).toEqual([]);
+    expect(hours.filter(({ dow }) => dow === 0)).toEqual([]);
+  });
+
   it('includes a failing pressure hold and a clogged-filter case among the check runs', async () => {
     const failedHolds = await rows<{ job_id: number; points: number }>(
       first,
@@ -185,7 +197,8 @@ describe('demo seed', () => {
     const missing = await rows<{ day: string }>(
       first,
       sql`
-      select distinct (j.scheduled_at at time zone 'UTC')::date::text as day from jobs j
+      select distinct (j.scheduled_at at time zone b.timezone)::date::text as day
+      from jobs j join businesses b on b.id = j.business_id
       where j.status not in ('booked', 'cancelled')
       except select trip_date::text from trips`,
     );
