@@ -22,6 +22,7 @@ export default defineConfig({
   test: {
     include: ['tests/**/*.test.{ts,tsx}'],
     globalSetup: ['tests/helpers/global-setup.ts'],
+    reporters: ['default', './tests/helpers/summary-reporter.ts'],
     testTimeout: 30_000,
     hookTimeout: 120_000,
     restoreMocks: true,
