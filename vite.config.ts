@@ -24,6 +24,7 @@ export default defineConfig({
     globalSetup: ['tests/helpers/global-setup.ts'],
     reporters: ['default', './tests/helpers/summary-reporter.ts'],
     testTimeout: 30_000,
+    maxWorkers: 2,
     hookTimeout: 120_000,
     restoreMocks: true,
   },
