@@ -8,8 +8,9 @@ describe('VIN check digit (49 CFR 565.15)', () => {
     expect(isValidVin('1M8GDM9AXKP042788')).toBe(true);
   });
 
-  it('accepts 11111111111111111, whose weighted sum is 100 ≡ 1 (mod 11)', () => {
-    // Weights 8+7+6+5+4+3+2+10+0+9+8+7+6+5+4+3+2 = 89, plus nothing: 89 mod 11 = 1 (arithmetic).
+  it('accepts 11111111111111111, listed as valid in REFERENCES.md', () => {
+    // Arithmetic check: the weights sum to 89, and 89 mod 11 = 1, the digit in position 9.
+    expect(vinCheckDigit('11111111111111111')).toBe('1');
     expect(isValidVin('11111111111111111')).toBe(true);
   });
 
