@@ -15,6 +15,7 @@ describe('the dashboard in Chromium', () => {
   let browser: Browser;
   let page: Page;
   let url: string;
+  const requested: string[] = [];
   beforeAll(async () => {
     database = await cloneDatabase('seeded');
     server = createApp({ db: database.db, clientDir: CLIENT_DIR }).listen(0, '127.0.0.1');
@@ -22,6 +23,7 @@ describe('the dashboard in Chromium', () => {
     url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
     browser = await launchBrowser();
     page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+    page.on('request', (request) => requested.push(request.url()));
   });
   afterAll(async () => {
     await browser?.close();
@@ -42,6 +44,8 @@ describe('the dashboard in Chromium', () => {
       return [...document.fonts].filter((f) => f.status === 'loaded').map((f) => f.family);
     });
     expect(fonts.some((family) => family.includes('Space Grotesk'))).toBe(true);
+    expect(requested.some((address) => /\.woff2?$/.test(address))).toBe(true);
+    expect(requested.filter((address) => !address.startsWith(url))).toEqual([]);
   });
 
   it('moves between sections from the navigation and on a deep link', async () => {
