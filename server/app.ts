@@ -11,15 +11,8 @@ import type { Db } from './db/client';
 import { HttpError, NotFoundError } from './errors';
 import { healthRouter } from './routes/health';
 
-export interface Clock {
-  now(): Date;
-}
-
-export const systemClock: Clock = { now: () => new Date() };
-
 export interface AppDeps {
   db: Db;
-  clock?: Clock;
   /** The built dashboard to serve; omitted in API-only tests and in `npm run dev`. */
   clientDir?: string;
   /** Request log lines go here; omitted means no request log. */
@@ -29,11 +22,10 @@ export interface AppDeps {
 /** JSON bodies larger than this are refused with 413 before any route sees them. */
 export const JSON_BODY_LIMIT = '100kb';
 
-export function createApp({ db, clock = systemClock, clientDir, log }: AppDeps) {
+export function createApp({ db, clientDir, log }: AppDeps) {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
-  app.locals.clock = clock;
 
   if (log) {
     app.use(

@@ -183,7 +183,7 @@ export async function seedDemo(db: Db, { today }: { today: Date }): Promise<Seed
       machineIds.set(machine.key, row!.id);
     }
 
-    await seedServiceIntervals(tx, businessId, machineIds, localDay(today), setUpAt);
+    await seedServiceIntervals(tx, { businessId, machineIds, customerIds, today: localDay(today), setUpAt });
 
     const plan = planJobs(localDay(today), rng);
     let vanOdometer = 48_210.4;
@@ -707,6 +707,8 @@ function flow(spec: DemoSpecs, ml: number, seconds: number): SeedStep {
 }
 
 function pumpVoltage(volts: number, batteryVolts: number): SeedStep {
+  // Within 0.5 V of battery counts as present: about 0.5 V is the usual limit for a whole feed's
+  // drop (common practice, REFERENCES.md "Circuit voltage drop"); under 1 V counts as absent.
   const present = volts >= batteryVolts - 0.5;
   const absent = volts < 1;
   return {
@@ -768,10 +770,19 @@ function checkSteps(story: JobStory, spec: DemoSpecs, rng: ReturnType<typeof prn
 
 async function seedServiceIntervals(
   tx: Tx,
-  businessId: number,
-  machineIds: Map<string, number>,
-  today: Date,
-  setUpAt: Date,
+  {
+    businessId,
+    machineIds,
+    customerIds,
+    today,
+    setUpAt,
+  }: {
+    businessId: number;
+    machineIds: Map<string, number>;
+    customerIds: Map<string, number>;
+    today: Date;
+    setUpAt: Date;
+  },
 ) {
   for (const [i, machine] of demoMachines.entries()) {
     const machineId = machineIds.get(machine.key)!;
@@ -779,6 +790,7 @@ async function seedServiceIntervals(
     // Staggered so the due list has something overdue, something soon and something far off.
     const monthsAgo = [13, 11, 6, 2][i % 4]!;
     const lastDone = new Date(Date.UTC(today.getUTCFullYear(), today.getUTCMonth() - monthsAgo, 10));
+    // Generic intervals (common practice, no published source); a machine's manual may say otherwise.
     const rows: {
       item: ServiceItem;
       label: string;
@@ -854,7 +866,7 @@ async function seedServiceIntervals(
       businessId,
       serviceIntervalId: fuelFilter.id,
       machineId,
-      customerId: (await customerIdOf(tx, machineId))!,
+      customerId: customerIds.get(machine.customerKey)!,
       dueOn,
       status: mailed ? 'sent' : 'pending',
       sentAt: mailed ? at(addDays(today, -5), 8) : null,
@@ -862,14 +874,6 @@ async function seedServiceIntervals(
       createdAt: setUpAt,
     });
   }
-}
-
-async function customerIdOf(tx: Tx, machineId: number) {
-  const [row] = await tx
-    .select({ customerId: t.machines.customerId })
-    .from(t.machines)
-    .where(eq(t.machines.id, machineId));
-  return row?.customerId;
 }
 
 interface InvoiceInput {
