@@ -595,7 +595,7 @@ async function seedCheck(tx: Tx, input: CheckInput) {
       answer: step.answer,
       verdict: step.verdict,
       reason: step.reason,
-      cautionAcknowledgedAt: step.key.includes('pressure') || step.key === 'flow' ? stepAt : null,
+      cautionAcknowledgedAt: HAZARDOUS_STEPS.has(step.key) ? stepAt : null,
       answeredAt: stepAt,
     });
     if (step.readings.length > 0) {
@@ -621,6 +621,20 @@ async function seedCheck(tx: Tx, input: CheckInput) {
     }
   }
 }
+
+/**
+ * Steps whose caution must be acknowledged before they run (PRODUCT.md, "Safety"): fuel under
+ * pressure or flowing into a container, back-probing a live connector, working at battery
+ * terminals, cranking with a plug out.
+ */
+const HAZARDOUS_STEPS = new Set([
+  'basics-battery',
+  'pump-connector-voltage',
+  'static-pressure-hold',
+  'running-pressure',
+  'flow-volume',
+  'compression-dry',
+]);
 
 function toCanonical(r: SeedStep['readings'][number]): { value: number; unit: string } {
   if (r.psi !== undefined) return { value: psiToKpa(r.psi), unit: 'kPa' };

@@ -154,6 +154,23 @@ describe('demo seed', () => {
     expect(cloggedFilter.length).toBeGreaterThanOrEqual(1);
   });
 
+  it('records the caution acknowledged on every hazardous step it seeds', async () => {
+    const unacknowledged = await rows<{ step_key: string }>(
+      first,
+      sql`
+      select distinct step_key from check_steps
+      where step_key in ('basics-battery', 'pump-connector-voltage', 'static-pressure-hold',
+                         'running-pressure', 'flow-volume', 'compression-dry')
+        and caution_acknowledged_at is null`,
+    );
+    expect(unacknowledged).toEqual([]);
+    const flowSteps = await rows<{ n: number }>(
+      first,
+      sql`select count(*)::int as n from check_steps where step_key = 'flow-volume'`,
+    );
+    expect(flowSteps[0]!.n).toBeGreaterThan(0);
+  });
+
   it('stores pressure readings in kPa and keeps what the mechanic typed', async () => {
     const [reading] = await rows<{
       value: number;
