@@ -4,6 +4,7 @@
  * (compute to the third decimal, round up when it is greater than four).
  */
 import type { TaxRounding } from './api/invoices';
+import { clean } from './evaluators/types';
 
 export interface MoneyLine {
   /** Thousandths of a unit: 1.5 labour hours = 1500. */
@@ -60,4 +61,29 @@ export function invoiceTotals(lines: MoneyLine[], ratePpm: number, rounding: Tax
       ? priced.reduce((sum, line) => sum + line.taxCents, 0)
       : taxCents(taxableCents, ratePpm);
   return { lines: priced, subtotalCents, taxCents: tax, totalCents: subtotalCents + tax };
+}
+
+/** What a call-out costs: a base fee, then a price per mile past the miles the base covers. */
+export interface TripFeeRule {
+  tripFeeBaseCents: number;
+  tripFeePerMileCents: number;
+  tripFeeFreeMiles: number;
+}
+
+/**
+ * The trip fee for a distance: the base, plus the per-mile price for each started mile beyond the
+ * free miles (ceil(miles) − free, never below 0). Miles are cleaned of float noise first, so an
+ * odometer difference 128.3 − 117.3 = 11.000000000000014 is charged as 11 miles, not 12.
+ * @throws RangeError for negative or non-finite miles, or a rule that is not whole numbers ≥ 0.
+ */
+export function tripFeeCents(miles: number, rule: TripFeeRule): number {
+  if (!Number.isFinite(miles) || miles < 0) throw new RangeError(`miles must be at least 0, not ${miles}`);
+  const { tripFeeBaseCents, tripFeePerMileCents, tripFeeFreeMiles } = rule;
+  for (const value of [tripFeeBaseCents, tripFeePerMileCents, tripFeeFreeMiles]) {
+    if (!Number.isSafeInteger(value) || value < 0) {
+      throw new RangeError(`trip fee rule needs whole numbers ≥ 0, not ${value}`);
+    }
+  }
+  const chargedMiles = Math.max(0, Math.ceil(clean(miles)) - tripFeeFreeMiles);
+  return tripFeeBaseCents + chargedMiles * tripFeePerMileCents;
 }

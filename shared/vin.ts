@@ -38,3 +38,36 @@ export function withCheckDigit(vin: string): string {
   if (digit === null) throw new RangeError(`not a VIN body: ${vin}`);
   return `${upper.slice(0, 8)}${digit}${upper.slice(9)}`;
 }
+
+/**
+ * Position 10 model year codes in cycle order (49 CFR 565.15): A–Y without I, O, Q, U and Z, then
+ * 1–9. The code at index i stands for 1980 + i, and again every 30 years after.
+ */
+const MODEL_YEAR_CODES = 'ABCDEFGHJKLMNPRSTVWXY123456789';
+const MODEL_YEAR_CYCLE = MODEL_YEAR_CODES.length;
+const FIRST_MODEL_YEAR = 1980;
+/** The last year of the second cycle; later cycles are left out until they are near. */
+const LAST_MODEL_YEAR = 2039;
+
+/** Every model year a position 10 code can stand for, ascending; [] for a character that is not a code. */
+export function modelYearsForCode(code: string): number[] {
+  if (code.length !== 1) return [];
+  const index = MODEL_YEAR_CODES.indexOf(code.toUpperCase());
+  if (index < 0) return [];
+  const years: number[] = [];
+  for (let year = FIRST_MODEL_YEAR + index; year <= LAST_MODEL_YEAR; year += MODEL_YEAR_CYCLE) {
+    years.push(year);
+  }
+  return years;
+}
+
+/**
+ * Every model year position 10 can stand for (49 CFR 565.15 30-year cycle, 1980–2039), ascending;
+ * [] when position 10 is not a year code or the text is not 17 chars. The machine record decides
+ * between the candidates, so none is preferred here.
+ */
+export function modelYearsFromVin(vin: string): number[] {
+  const trimmed = vin.trim();
+  if (trimmed.length !== 17) return [];
+  return modelYearsForCode(trimmed[9] as string);
+}

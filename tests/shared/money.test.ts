@@ -1,7 +1,7 @@
 import Decimal from 'decimal.js';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { divRoundHalfUp, invoiceTotals, lineTotalCents, taxCents } from '../../shared/money';
+import { divRoundHalfUp, invoiceTotals, lineTotalCents, taxCents, tripFeeCents } from '../../shared/money';
 
 describe('money in integer cents', () => {
   it('rounds tax half up to the cent as SSUTA §324 asks', () => {
@@ -76,5 +76,59 @@ describe('money in integer cents', () => {
     expect(invoiceTotals(lines, 62_500, 'per_invoice').taxCents).toBe(137);
     expect(invoiceTotals(lines, 62_500, 'per_line').taxCents).toBe(138);
     expect(invoiceTotals(lines, 62_500, 'per_line').totalCents).toBe(1099 * 2 + 5000 + 138);
+  });
+});
+
+describe('trip fee', () => {
+  // A made-up call-out rule for Ridgeback Mobile Moto: $45 covers the first 10 miles, then $1.50 a mile.
+  const rule = { tripFeeBaseCents: 4500, tripFeePerMileCents: 150, tripFeeFreeMiles: 10 };
+
+  it.each([
+    // Hand-worked: base + 150 ¢ × (ceil(miles) − 10, never below 0).
+    [0, 4500], // inside the free miles: base only
+    [9.5, 4500],
+    [10, 4500], // exactly the free miles: nothing extra
+    [10.2, 4650], // the 11th mile is started: 1 × 150
+    [24.1, 6750], // ceil 25 − 10 = 15 × 150 = 2250, + 4500
+    [25, 6750],
+  ])('%d mi → %i ¢', (miles, cents) => {
+    expect(tripFeeCents(miles, rule)).toBe(cents);
+  });
+
+  it('charges from the first started mile when no miles are free', () => {
+    // Hand-worked: ceil(0.5) = 1 mile × 200 ¢ + 1000 ¢.
+    expect(tripFeeCents(0.5, { tripFeeBaseCents: 1000, tripFeePerMileCents: 200, tripFeeFreeMiles: 0 })).toBe(
+      1200,
+    );
+  });
+
+  it('does not charge a started mile for float noise in a computed distance', () => {
+    // IEEE 754 doubles: odometer 128.3 − 117.3 = 11.000000000000014; the trip is 11 miles, one past the free 10.
+    const miles = 128.3 - 117.3;
+    expect(miles).toBeGreaterThan(11);
+    expect(tripFeeCents(miles, rule)).toBe(4650);
+  });
+
+  it('refuses negative or non-finite miles and a rule that is not whole numbers', () => {
+    for (const miles of [-0.1, Number.NaN, Infinity])
+      expect(() => tripFeeCents(miles, rule)).toThrow(RangeError);
+    expect(() => tripFeeCents(5, { ...rule, tripFeePerMileCents: 1.5 })).toThrow(RangeError);
+    expect(() => tripFeeCents(5, { ...rule, tripFeeFreeMiles: -1 })).toThrow(RangeError);
+  });
+
+  it('never falls as the distance grows and never drops below the base', () => {
+    const anyRule = fc.record({
+      tripFeeBaseCents: fc.integer({ min: 0, max: 50_000 }),
+      tripFeePerMileCents: fc.integer({ min: 0, max: 1_000 }),
+      tripFeeFreeMiles: fc.integer({ min: 0, max: 100 }),
+    });
+    const miles = fc.double({ min: 0, max: 1_000, noNaN: true });
+    fc.assert(
+      fc.property(anyRule, miles, miles, (r, a, b) => {
+        const [near, far] = a <= b ? [a, b] : [b, a];
+        const nearFee = tripFeeCents(near, r);
+        return nearFee >= r.tripFeeBaseCents && nearFee <= tripFeeCents(far, r);
+      }),
+    );
   });
 });
