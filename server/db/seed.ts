@@ -10,7 +10,22 @@ import { eq, sql } from 'drizzle-orm';
 import { invoiceTotals, type MoneyLine } from '../../shared/money';
 import { withCheckDigit } from '../../shared/vin';
 import { JOB_STATUSES, type JobStatus, type LineItemKind } from '../../shared/api/jobs';
-import type { Verdict } from '../../shared/api/readings';
+import { CANONICAL_UNITS } from '../../shared/api/readings';
+import { round } from '../../shared/evaluators/types';
+import { batteryCharging } from '../../shared/procedures/battery-charging';
+import { compression } from '../../shared/procedures/compression';
+import { startRun, walkRun, type RunState } from '../../shared/procedures/engine';
+import { fuelDelivery } from '../../shared/procedures/fuel-delivery';
+import { GENERIC_FUEL_SPEC, type MachineSpec } from '../../shared/procedures/specs';
+import type {
+  ListValue,
+  MeasurementValue,
+  ProcedureDefinition,
+  SeriesValue,
+  StepAnswer,
+  StepDefinition,
+} from '../../shared/procedures/types';
+import { convert, kpaToPsi, psiToKpa, type UnitId } from '../../shared/units';
 import type { ServiceItem } from '../../shared/api/reminders';
 import { hashPassword } from '../auth/password';
 import type { Db } from './client';
@@ -30,21 +45,16 @@ import {
   type JobStory,
 } from './seed-data';
 
-/** NIST SP 811 B.8: 1 psi = 6.894 757 293 168 kPa (exact from the pound-force and the inch). */
-const KPA_PER_PSI = 6.894757293168;
-const psiToKpa = (psi: number) => psi * KPA_PER_PSI;
-
 /**
- * Generic fuel specs for machines without manual values, for the demo's own verdicts only:
- * 43 psi nominal port injection and a couple of psi of settling are common practice, no
- * published source (REFERENCES.md, "Fuel delivery").
+ * The shared generic fuel limits in psi, to place a story's numbers for a machine without manual
+ * values; the verdicts themselves come from the engine, which applies the same limits.
  */
 const GENERIC_SPECS: DemoSpecs = {
-  pressureMinPsi: 39,
-  pressureMaxPsi: 47,
-  holdMaxDropPsi: 3,
-  holdMinutes: 5,
-  flowMinLph: 30,
+  pressureMinPsi: round(kpaToPsi(GENERIC_FUEL_SPEC.fuelPressureMinKpa), 6),
+  pressureMaxPsi: round(kpaToPsi(GENERIC_FUEL_SPEC.fuelPressureMaxKpa), 6),
+  holdMaxDropPsi: round(kpaToPsi(GENERIC_FUEL_SPEC.holdMaxDropKpa), 6),
+  holdMinutes: GENERIC_FUEL_SPEC.holdMinutes,
+  flowMinLph: GENERIC_FUEL_SPEC.flowMinLph,
 };
 
 const DAY_MS = 86_400_000;
@@ -156,7 +166,6 @@ export async function seedDemo(db: Db, { today }: { today: Date }): Promise<Seed
 
     const machineIds = new Map<string, number>();
     for (const machine of demoMachines) {
-      const specs = machine.specs;
       const [row] = await tx
         .insert(t.machines)
         .values({
@@ -171,12 +180,8 @@ export async function seedDemo(db: Db, { today }: { today: Date }): Promise<Seed
           meterUnit: machine.meterUnit,
           meterReading: machine.meterReading,
           meterReadAt: at(addDays(localDay(today), -45), 12),
-          fuelPressureMinKpa: specs ? psiToKpa(specs.pressureMinPsi) : null,
-          fuelPressureMaxKpa: specs ? psiToKpa(specs.pressureMaxPsi) : null,
-          holdMaxDropKpa: specs ? psiToKpa(specs.holdMaxDropPsi) : null,
-          holdMinutes: specs?.holdMinutes ?? null,
-          flowMinLph: specs?.flowMinLph ?? null,
-          specsNote: specs ? 'Entered from the service manual.' : null,
+          ...(machineSpec(machine) ?? {}),
+          specsNote: machine.specs ? 'Entered from the service manual.' : null,
           ...stamps,
         })
         .returning({ id: t.machines.id });
@@ -538,248 +543,237 @@ interface CheckInput {
   finished: boolean;
 }
 
-interface SeedStep {
-  key: string;
-  answer: Record<string, unknown>;
-  verdict: Verdict | null;
-  reason: string;
-  readings: {
-    quantity: 'pressure' | 'voltage' | 'flow' | 'compression' | 'duration';
-    psi?: number;
-    value?: number;
-    unit?: string;
-    atSec: number;
-  }[];
+type SeedAnswer = { stepKey: string; answer: StepAnswer };
+type SeedAnswers = { procedure: ProcedureDefinition; answers: SeedAnswer[] };
+
+const V = (value: number) => ({ value, unit: 'V' as const });
+const psi = (value: number) => ({ value, unit: 'psi' as const });
+
+/**
+ * The answers a mechanic gave for each story, in the units typed at the roadside. The shared
+ * engine walks them, so every stored verdict, reason and finding is the one the server's
+ * re-check derives.
+ */
+function storyAnswers(story: JobStory, spec: DemoSpecs, rng: ReturnType<typeof prng>): SeedAnswers | null {
+  const mid = (spec.pressureMinPsi + spec.pressureMaxPsi) / 2;
+  const bat = rng.round(12.5 + rng.next() * 0.2, 2);
+  const holdSeries = (peak: number, leakPsiPerMin: number) => ({
+    points: {
+      unit: 'psi' as const,
+      points: [0, 30, 60, 120, 180, 240, 300].map((sec) => {
+        const settle = sec >= 30 ? 1 : 0; // the normal small drop right after the pump stops
+        const leak = sec > 30 ? ((sec - 30) / 60) * leakPsiPerMin : 0;
+        return { sec, value: rng.round(peak - settle - leak, 1) };
+      }),
+    },
+  });
+  const symptoms: Partial<Record<JobStory, string[]>> = {
+    'hold-fail': ['long_cranking'],
+    'clogged-filter': ['cuts_out_under_load', 'stumbles_on_acceleration'],
+    'no-prime-pump': ['no_start'],
+    'no-prime-relay': ['no_start'],
+    'low-voltage': ['no_start'],
+    'stale-fuel': ['stumbles_on_acceleration'],
+  };
+  const basics = (fuel: string): SeedAnswer[] => [
+    { stepKey: 'symptoms', answer: { symptoms: symptoms[story] ?? [] } },
+    { stepKey: 'basics-battery', answer: { batteryType: 'flooded', volts: V(bat) } },
+    { stepKey: 'basics-fuel', answer: { fuel } },
+    { stepKey: 'basics-air-filter', answer: { airFilter: 'clean' } },
+    { stepKey: 'basics-fault-codes', answer: { faultCodes: 'none' } },
+    { stepKey: 'basics-engine', answer: { engine: 'confirmed' } },
+  ];
+  const primed: SeedAnswer = {
+    stepKey: 'prime-run',
+    answer: { primeRun: 'ran_stopped', seconds: { value: 2.5, unit: 's' } },
+  };
+  const noPrime: SeedAnswer = { stepKey: 'prime-run', answer: { primeRun: 'none' } };
+  const running = (idle: number, snap: number, held: number): SeedAnswer => ({
+    stepKey: 'running-pressure',
+    answer: { idle: psi(idle), snap: psi(snap), held: psi(held) },
+  });
+  const fuel = (answers: SeedAnswer[]): SeedAnswers => ({
+    procedure: fuelDelivery,
+    answers,
+  });
+  switch (story) {
+    case 'hold-fail':
+      return fuel([
+        ...basics('fresh'),
+        primed,
+        { stepKey: 'static-pressure-hold', answer: holdSeries(mid, 2.2) },
+        { stepKey: 'engine-runs', answer: { runs: 'yes' } },
+        running(mid, mid - 1, mid - 0.5),
+        { stepKey: 'filters', answer: { filters: 'ok' } },
+      ]);
+    case 'clogged-filter':
+      return fuel([
+        ...basics('fresh'),
+        primed,
+        { stepKey: 'static-pressure-hold', answer: holdSeries(mid, 0.1) },
+        { stepKey: 'engine-runs', answer: { runs: 'yes' } },
+        running(mid - 1, spec.pressureMinPsi - 6, spec.pressureMinPsi - 9),
+        {
+          stepKey: 'flow-volume',
+          answer: { volume: { value: 95, unit: 'mL' }, seconds: { value: 15, unit: 's' } },
+        },
+        { stepKey: 'filters', answer: { filters: 'restricted' } },
+      ]);
+    case 'no-prime-pump':
+      return fuel([
+        ...basics('fresh'),
+        noPrime,
+        { stepKey: 'pump-connector-voltage', answer: { volts: V(rng.round(bat - 0.2, 2)) } },
+      ]);
+    case 'no-prime-relay':
+      return fuel([
+        ...basics('fresh'),
+        noPrime,
+        { stepKey: 'pump-connector-voltage', answer: { volts: V(0) } },
+      ]);
+    case 'low-voltage': {
+      const atPump = rng.round(bat - 2.4, 2);
+      return fuel([
+        ...basics('fresh'),
+        noPrime,
+        { stepKey: 'pump-connector-voltage', answer: { volts: V(atPump) } },
+        { stepKey: 'supply-voltage-drop', answer: { supplyVolts: V(bat), loadVolts: V(atPump) } },
+      ]);
+    }
+    case 'stale-fuel':
+      return fuel([
+        ...basics('stale'),
+        primed,
+        { stepKey: 'static-pressure-hold', answer: holdSeries(mid, 0.2) },
+        { stepKey: 'engine-runs', answer: { runs: 'yes' } },
+        running(mid, mid - 0.5, mid),
+        { stepKey: 'filters', answer: { filters: 'overdue' } },
+      ]);
+    case 'weak-battery':
+      return {
+        procedure: batteryCharging,
+        answers: [{ stepKey: 'battery-rest', answer: { batteryType: 'flooded', volts: V(12.05) } }],
+      };
+    case 'low-compression':
+      return {
+        procedure: compression,
+        answers: [
+          { stepKey: 'compression-dry', answer: { cylinders: { unit: 'psi', values: [150, 108] } } },
+          { stepKey: 'compression-wet', answer: { cylinders: { unit: 'psi', values: [156, 139] } } },
+        ],
+      };
+    case 'service':
+      return null;
+  }
+}
+
+/** The job readings a step's answer holds: one per measurement, per point of a series, per cylinder. */
+function stepReadings(step: StepDefinition, answer: StepAnswer) {
+  return step.fields.flatMap((field) => {
+    const value = answer[field.key];
+    if (value === undefined || field.type === 'choice' || field.type === 'choices') return [];
+    const unit = CANONICAL_UNITS[field.quantity];
+    const reading = (entered: number, enteredUnit: UnitId, atSec: number, note: string | null) => ({
+      quantity: field.quantity,
+      value: convert(entered, enteredUnit, unit),
+      unit,
+      enteredValue: entered,
+      enteredUnit,
+      atSec,
+      note,
+    });
+    if (field.type === 'measurement') {
+      const m = value as MeasurementValue;
+      return [reading(m.value, m.unit, 0, field.label)];
+    }
+    if (field.type === 'series') {
+      const series = value as SeriesValue;
+      return series.points.map((p) => reading(p.value, series.unit, p.sec, null));
+    }
+    const list = value as ListValue;
+    return list.values.map((v, i) => reading(v, list.unit, i * 20, `${field.itemLabel} ${i + 1}`));
+  });
 }
 
 /**
- * One guided check per job, with the readings a mechanic would log. The verdicts here are the
- * ones recorded in the field; the server's check engine re-evaluates runs when it reads them.
+ * One guided check per job, walked through the shared engine with the answers of its story. A
+ * job still being diagnosed has only the first half of its answers, as a run paused mid-way.
  */
 async function seedCheck(tx: Tx, input: CheckInput) {
   const { story, machine, rng } = input;
-  const spec = machine.specs ?? GENERIC_SPECS;
-  const steps = checkSteps(story, spec, rng);
-  if (steps.length === 0) return;
-  const procedureKey =
-    story === 'weak-battery'
-      ? 'battery-charging'
-      : story === 'low-compression'
-        ? 'compression'
-        : 'fuel-delivery';
-  const recorded = input.finished ? steps : steps.slice(0, Math.ceil(steps.length / 2));
-  const worst = worstVerdict(recorded.map((s) => s.verdict));
+  const planned = storyAnswers(story, machine.specs ?? GENERIC_SPECS, rng);
+  if (!planned) return;
+  const { procedure, answers } = planned;
+  const recorded = input.finished ? answers : answers.slice(0, Math.ceil(answers.length / 2));
+  const state: RunState = {
+    ...startRun(procedure),
+    steps: recorded.map((a) => ({
+      ...a,
+      cautionAcknowledged: procedure.steps[a.stepKey]?.caution ? true : undefined,
+    })),
+  };
+  const view = walkRun(procedure, state, { spec: machineSpec(machine) });
+  if (input.finished && !view.finished) throw new Error(`seed story ${story} does not finish its check`);
   const [run] = await tx
     .insert(t.checkRuns)
     .values({
       businessId: input.businessId,
       jobId: input.jobId,
-      procedureKey,
-      procedureVersion: 1,
-      status: input.finished ? 'finished' : 'in_progress',
-      verdict: input.finished ? worst : null,
-      findings: input.finished ? { summary: storyDiagnosis[story] } : null,
+      procedureKey: procedure.key,
+      procedureVersion: procedure.version,
+      status: view.finished ? 'finished' : 'in_progress',
+      verdict: view.outcome?.verdict ?? null,
+      findings: view.outcome ? { ...view.outcome, summary: storyDiagnosis[story] } : null,
       startedAt: input.start,
-      finishedAt: input.finished ? new Date(input.start.getTime() + 40 * 60_000) : null,
+      finishedAt: view.finished ? new Date(input.start.getTime() + 40 * 60_000) : null,
       createdBy: input.actorId,
       createdAt: input.start,
     })
     .returning({ id: t.checkRuns.id });
-  for (const [seq, step] of recorded.entries()) {
-    const stepAt = new Date(input.start.getTime() + seq * 6 * 60_000);
+  for (const step of view.steps) {
+    const stepAt = new Date(input.start.getTime() + step.seq * 4 * 60_000);
+    const definition = procedure.steps[step.stepKey]!;
     await tx.insert(t.checkSteps).values({
       businessId: input.businessId,
       checkRunId: run!.id,
-      seq,
-      stepKey: step.key,
+      seq: step.seq,
+      stepKey: step.stepKey,
       answer: step.answer,
-      verdict: step.verdict,
-      reason: step.reason,
-      cautionAcknowledgedAt: HAZARDOUS_STEPS.has(step.key) ? stepAt : null,
+      verdict: step.evaluation?.verdict ?? null,
+      reason: step.evaluation?.reason ?? null,
+      figures: step.evaluation?.figures ?? null,
+      cautionAcknowledgedAt: definition.caution ? stepAt : null,
       answeredAt: stepAt,
     });
-    if (step.readings.length > 0) {
+    const readings = stepReadings(definition, step.answer);
+    if (readings.length > 0) {
       await tx.insert(t.readings).values(
-        step.readings.map((r) => {
-          const canonical = toCanonical(r);
-          return {
-            businessId: input.businessId,
-            jobId: input.jobId,
-            checkRunId: run!.id,
-            stepKey: step.key,
-            quantity: r.quantity,
-            value: canonical.value,
-            unit: canonical.unit,
-            enteredValue: r.psi ?? r.value!,
-            enteredUnit: r.psi !== undefined ? 'psi' : r.unit!,
-            takenAt: new Date(stepAt.getTime() + r.atSec * 1000),
-            createdBy: input.actorId,
-            createdAt: stepAt,
-          };
-        }),
+        readings.map(({ atSec, ...r }) => ({
+          ...r,
+          businessId: input.businessId,
+          jobId: input.jobId,
+          checkRunId: run!.id,
+          stepKey: step.stepKey,
+          takenAt: new Date(stepAt.getTime() + atSec * 1000),
+          createdBy: input.actorId,
+          createdAt: stepAt,
+        })),
       );
     }
   }
 }
 
-/**
- * Steps whose caution must be acknowledged before they run (PRODUCT.md, "Safety"): fuel under
- * pressure or flowing into a container, back-probing a live connector, working at battery
- * terminals, cranking with a plug out.
- */
-const HAZARDOUS_STEPS = new Set([
-  'basics-battery',
-  'pump-connector-voltage',
-  'static-pressure-hold',
-  'running-pressure',
-  'flow-volume',
-  'compression-dry',
-]);
-
-function toCanonical(r: SeedStep['readings'][number]): { value: number; unit: string } {
-  if (r.psi !== undefined) return { value: psiToKpa(r.psi), unit: 'kPa' };
-  return { value: r.value!, unit: r.unit! };
-}
-
-function worstVerdict(verdicts: (Verdict | null)[]): Verdict {
-  if (verdicts.includes('fail')) return 'fail';
-  if (verdicts.includes('warn')) return 'warn';
-  return 'pass';
-}
-
-const battery = (volts: number): SeedStep => ({
-  key: 'basics-battery',
-  answer: { kind: 'reading', quantity: 'voltage', value: volts, unit: 'V' },
-  // ≈12.6 V is a full flooded battery at rest, 12.24 V half (BCI table in REFERENCES.md).
-  verdict: volts >= 12.4 ? 'pass' : volts >= 12.2 ? 'warn' : 'fail',
-  reason: volts >= 12.4 ? 'Battery charged at rest.' : 'Battery low at rest; charge and re-test first.',
-  readings: [{ quantity: 'voltage', value: volts, unit: 'V', atSec: 0 }],
-});
-
-const prime = (ran: boolean, seconds = 2.5): SeedStep => ({
-  key: 'prime-run',
-  answer: ran ? { kind: 'observation', value: 'ran', seconds } : { kind: 'observation', value: 'none' },
-  verdict: ran ? 'pass' : 'fail',
-  reason: ran ? `Pump ran ${seconds} s at key-on and stopped.` : 'No prime run at key-on.',
-  readings: ran ? [{ quantity: 'duration', value: seconds, unit: 's', atSec: 0 }] : [],
-});
-
-function hold(spec: DemoSpecs, peakPsi: number, leakPsiPerMin: number): SeedStep {
-  const points = [0, 30, 60, 120, 180, 240, 300].map((sec) => {
-    const settle = sec >= 30 ? 1 : 0; // the normal small drop right after the pump stops
-    const leak = sec > 30 ? ((sec - 30) / 60) * leakPsiPerMin : 0;
-    return { sec, psi: Number((peakPsi - settle - leak).toFixed(1)) };
-  });
-  const drop = Number((points[1]!.psi - points[points.length - 1]!.psi).toFixed(1));
-  const fails = drop > spec.holdMaxDropPsi;
+/** The machine's manual figures as the machines table stores them (kPa), or none. */
+function machineSpec(machine: DemoMachine): MachineSpec | null {
+  const specs = machine.specs;
+  if (!specs) return null;
   return {
-    key: 'static-pressure-hold',
-    answer: { kind: 'series', quantity: 'pressure', unit: 'psi', points },
-    verdict: fails ? 'fail' : 'pass',
-    reason: fails
-      ? `Fell ${drop} psi after settling (limit ${spec.holdMaxDropPsi} psi in ${spec.holdMinutes} min): check valve, injector or regulator leaking.`
-      : `Held within ${spec.holdMaxDropPsi} psi after settling.`,
-    readings: points.map((p) => ({ quantity: 'pressure' as const, psi: p.psi, atSec: p.sec })),
+    fuelPressureMinKpa: psiToKpa(specs.pressureMinPsi),
+    fuelPressureMaxKpa: psiToKpa(specs.pressureMaxPsi),
+    holdMaxDropKpa: psiToKpa(specs.holdMaxDropPsi),
+    holdMinutes: specs.holdMinutes,
+    flowMinLph: specs.flowMinLph,
   };
-}
-
-function running(spec: DemoSpecs, idle: number, snap: number, held: number): SeedStep {
-  const low = Math.min(idle, snap, held);
-  const fails = low < spec.pressureMinPsi;
-  return {
-    key: 'running-pressure',
-    answer: {
-      kind: 'series',
-      quantity: 'pressure',
-      unit: 'psi',
-      points: [
-        { phase: 'idle', psi: idle },
-        { phase: 'snap', psi: snap },
-        { phase: 'held', psi: held },
-      ],
-    },
-    verdict: fails ? 'fail' : 'pass',
-    reason: fails
-      ? `Dipped to ${low} psi under load, below the ${spec.pressureMinPsi}–${spec.pressureMaxPsi} psi band: running lean.`
-      : `Stayed in the ${spec.pressureMinPsi}–${spec.pressureMaxPsi} psi band.`,
-    readings: [idle, snap, held].map((psi, i) => ({ quantity: 'pressure' as const, psi, atSec: i * 20 })),
-  };
-}
-
-function flow(spec: DemoSpecs, ml: number, seconds: number): SeedStep {
-  const lph = Number(((ml / 1000) * (3600 / seconds)).toFixed(1));
-  const fails = lph < spec.flowMinLph;
-  return {
-    key: 'flow-volume',
-    answer: { kind: 'flow', ml, seconds },
-    verdict: fails ? 'fail' : 'pass',
-    reason: fails
-      ? `${lph} L/h, under the ${spec.flowMinLph} L/h minimum: restriction.`
-      : `${lph} L/h: strong steady flow.`,
-    readings: [{ quantity: 'flow', value: lph, unit: 'L/h', atSec: seconds }],
-  };
-}
-
-function pumpVoltage(volts: number, batteryVolts: number): SeedStep {
-  // Within 0.5 V of battery counts as present: about 0.5 V is the usual limit for a whole feed's
-  // drop (common practice, REFERENCES.md "Circuit voltage drop"); under 1 V counts as absent.
-  const present = volts >= batteryVolts - 0.5;
-  const absent = volts < 1;
-  return {
-    key: 'pump-connector-voltage',
-    answer: { kind: 'reading', quantity: 'voltage', value: volts, unit: 'V' },
-    verdict: present ? 'pass' : absent ? 'fail' : 'warn',
-    reason: present
-      ? 'Supply present at the pump during prime: the pump itself is at fault.'
-      : absent
-        ? 'No voltage at the pump: check fuse, relay, run/stop switch, tip-over sensor, ECU output, wiring.'
-        : 'Well under battery voltage: voltage drop in wiring, connector or ground.',
-    readings: [{ quantity: 'voltage', value: volts, unit: 'V', atSec: 2 }],
-  };
-}
-
-function checkSteps(story: JobStory, spec: DemoSpecs, rng: ReturnType<typeof prng>): SeedStep[] {
-  const mid = (spec.pressureMinPsi + spec.pressureMaxPsi) / 2;
-  const bat = rng.round(12.5 + rng.next() * 0.2, 2);
-  switch (story) {
-    case 'hold-fail':
-      return [battery(bat), prime(true), hold(spec, mid, 2.2), running(spec, mid, mid - 1, mid - 0.5)];
-    case 'clogged-filter':
-      return [
-        battery(bat),
-        prime(true),
-        hold(spec, mid, 0.1),
-        running(spec, mid - 1, spec.pressureMinPsi - 6, spec.pressureMinPsi - 9),
-        flow(spec, 95, 15),
-      ];
-    case 'no-prime-pump':
-      return [battery(bat), prime(false), pumpVoltage(rng.round(bat - 0.2, 2), bat)];
-    case 'no-prime-relay':
-      return [battery(bat), prime(false), pumpVoltage(0, bat)];
-    case 'low-voltage':
-      return [
-        battery(bat),
-        prime(true, 2),
-        pumpVoltage(rng.round(bat - 2.4, 2), bat),
-        running(spec, mid - 2, spec.pressureMinPsi - 3, spec.pressureMinPsi - 1),
-      ];
-    case 'weak-battery':
-      return [battery(12.05)];
-    case 'stale-fuel':
-      return [battery(bat), prime(true), hold(spec, mid, 0.2)];
-    case 'low-compression':
-      return [
-        {
-          key: 'compression-dry',
-          answer: { kind: 'reading', quantity: 'compression', value: 62, unit: 'psi' },
-          verdict: 'fail',
-          reason: 'Well under the expected cranking compression for this engine.',
-          readings: [{ quantity: 'compression', psi: 62, atSec: 0 }],
-        },
-      ];
-    case 'service':
-      return [];
-  }
 }
 
 async function seedServiceIntervals(

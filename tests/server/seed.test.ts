@@ -1,4 +1,4 @@
-import { sql, type SQL } from 'drizzle-orm';
+import { eq, sql, type SQL } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { verifyPassword } from '../../server/auth/password';
 import { queryRows, type Database } from '../../server/db/client';
@@ -6,6 +6,8 @@ import { seedDemo } from '../../server/db/seed';
 import { DEMO_PASSWORD } from '../../server/db/seed-data';
 import * as t from '../../server/db/schema';
 import { JOB_STATUSES } from '../../shared/api/jobs';
+import { walkRun } from '../../shared/procedures/engine';
+import { findProcedure, PROCEDURES } from '../../shared/procedures/index';
 import { isValidVin } from '../../shared/vin';
 import { cloneDatabase } from '../helpers/db';
 import { SEED_TODAY } from '../helpers/fixtures';
@@ -155,15 +157,19 @@ describe('demo seed', () => {
   });
 
   it('records the caution acknowledged on every hazardous step it seeds', async () => {
-    const unacknowledged = await rows<{ step_key: string }>(
-      first,
-      sql`
-      select distinct step_key from check_steps
-      where step_key in ('basics-battery', 'pump-connector-voltage', 'static-pressure-hold',
-                         'running-pressure', 'flow-volume', 'compression-dry')
-        and caution_acknowledged_at is null`,
+    // The steps whose procedure data carries a caution (PRODUCT.md, "Safety").
+    const hazardous = Object.values(PROCEDURES).flatMap((p) =>
+      Object.values(p.steps as Record<string, { key: string; caution?: string }>).flatMap((s) =>
+        s.caution ? [s.key] : [],
+      ),
     );
+    const seeded = await rows<{ step_key: string; acknowledged: boolean }>(
+      first,
+      sql`select distinct step_key, caution_acknowledged_at is not null as acknowledged from check_steps`,
+    );
+    const unacknowledged = seeded.filter((s) => hazardous.includes(s.step_key) && !s.acknowledged);
     expect(unacknowledged).toEqual([]);
+    expect(seeded.filter((s) => hazardous.includes(s.step_key)).length).toBeGreaterThan(4);
     const flowSteps = await rows<{ n: number }>(
       first,
       sql`select count(*)::int as n from check_steps where step_key = 'flow-volume'`,
@@ -224,6 +230,39 @@ describe('demo seed', () => {
     for (const [i, trip] of trips.entries()) {
       expect(trip.endOdometer!).toBeGreaterThan(trip.startOdometer);
       if (i > 0) expect(trip.startOdometer).toBeGreaterThanOrEqual(trips[i - 1]!.endOdometer!);
+    }
+  });
+
+  it("stores every check as the shared engine derives it, so the server's re-check agrees", async () => {
+    const runs = await first.db.select().from(t.checkRuns);
+    expect(runs.length).toBeGreaterThan(5);
+    for (const run of runs) {
+      const steps = await first.db
+        .select()
+        .from(t.checkSteps)
+        .where(eq(t.checkSteps.checkRunId, run.id))
+        .orderBy(t.checkSteps.seq);
+      const [job] = await first.db.select().from(t.jobs).where(eq(t.jobs.id, run.jobId));
+      const [machine] = await first.db.select().from(t.machines).where(eq(t.machines.id, job!.machineId));
+      const procedure = findProcedure(run.procedureKey)!;
+      const view = walkRun(
+        procedure,
+        {
+          procedureKey: run.procedureKey,
+          procedureVersion: run.procedureVersion,
+          steps: steps.map((s) => ({
+            stepKey: s.stepKey,
+            answer: s.answer,
+            cautionAcknowledged: s.cautionAcknowledgedAt !== null,
+          })),
+        },
+        { spec: machine },
+      );
+      expect(view.finished).toBe(run.status === 'finished');
+      expect(
+        view.steps.map((s) => [s.stepKey, s.evaluation?.verdict ?? null, s.evaluation?.reason ?? null]),
+      ).toEqual(steps.map((s) => [s.stepKey, s.verdict, s.reason]));
+      expect(view.outcome?.verdict ?? null).toBe(run.verdict);
     }
   });
 
