@@ -3,6 +3,7 @@
  * raised revs, and a voltage-drop test on the starting circuit when cranking is weak. Thresholds
  * are generic (REFERENCES.md, "Battery"); the machine's service manual governs.
  */
+import { batteryRestStep } from './common-steps';
 import { FINISH, type ProcedureDefinition } from './types';
 
 export const batteryCharging: ProcedureDefinition = {
@@ -12,34 +13,10 @@ export const batteryCharging: ProcedureDefinition = {
   summary: 'Battery state of charge, cranking voltage, charging voltage and the starting circuit.',
   start: 'battery-rest',
   steps: {
-    'battery-rest': {
-      key: 'battery-rest',
-      title: 'Battery at rest',
-      prompt: 'Measure across the terminals after 1–2 h at rest (or with the surface charge removed).',
-      caution: 'battery',
-      evaluator: 'battery-rest',
-      fields: [
-        {
-          key: 'batteryType',
-          type: 'choice',
-          label: 'Battery type',
-          options: [
-            { value: 'flooded', label: 'Flooded lead-acid' },
-            { value: 'agm', label: 'AGM' },
-            { value: 'lithium', label: 'Lithium (LiFePO4)' },
-          ],
-        },
-        {
-          key: 'volts',
-          type: 'measurement',
-          quantity: 'voltage',
-          defaultUnit: 'V',
-          label: 'Resting voltage',
-        },
-      ],
-      findings: [{ when: { verdict: ['fail'] }, finding: 'battery-discharged' }],
-      next: [{ when: { verdict: ['fail'] }, goto: FINISH }, { goto: 'cranking-voltage' }],
-    },
+    'battery-rest': batteryRestStep('battery-rest', {
+      finding: 'battery-discharged',
+      next: 'cranking-voltage',
+    }),
     'cranking-voltage': {
       key: 'cranking-voltage',
       title: 'Cranking voltage',

@@ -5,6 +5,7 @@
  * machine's service manual governs.
  */
 import { LEAN_SYMPTOMS } from '../evaluators/lean-running';
+import { batteryRestStep } from './common-steps';
 import { FINISH, type ProcedureDefinition } from './types';
 
 const SYMPTOM_LABELS: Record<(typeof LEAN_SYMPTOMS)[number], string> = {
@@ -37,35 +38,7 @@ export const fuelDelivery: ProcedureDefinition = {
       ],
       next: [{ goto: 'basics-battery' }],
     },
-    'basics-battery': {
-      key: 'basics-battery',
-      title: 'Battery at rest',
-      prompt:
-        'Measure the battery across its terminals after 1–2 h at rest (or with the surface charge removed).',
-      caution: 'battery',
-      evaluator: 'battery-rest',
-      fields: [
-        {
-          key: 'batteryType',
-          type: 'choice',
-          label: 'Battery type',
-          options: [
-            { value: 'flooded', label: 'Flooded lead-acid' },
-            { value: 'agm', label: 'AGM' },
-            { value: 'lithium', label: 'Lithium (LiFePO4)' },
-          ],
-        },
-        {
-          key: 'volts',
-          type: 'measurement',
-          quantity: 'voltage',
-          defaultUnit: 'V',
-          label: 'Resting voltage',
-        },
-      ],
-      findings: [{ when: { verdict: ['fail'] }, finding: 'battery-low' }],
-      next: [{ when: { verdict: ['fail'] }, goto: FINISH }, { goto: 'basics-fuel' }],
-    },
+    'basics-battery': batteryRestStep('basics-battery', { finding: 'battery-low', next: 'basics-fuel' }),
     'basics-fuel': {
       key: 'basics-fuel',
       title: 'Fuel condition',

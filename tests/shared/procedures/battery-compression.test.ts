@@ -1,30 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import {
-  answerStep,
-  startRun,
-  walkRun,
-  type RunState,
-  type RunView,
-} from '../../../shared/procedures/engine';
+import { answerStep, startRun, type RunView } from '../../../shared/procedures/engine';
+import { walkWith } from '../../helpers/procedures';
 import { PROCEDURES } from '../../../shared/procedures/index';
-import type { ProcedureDefinition } from '../../../shared/procedures/types';
 
-function walk(procedure: ProcedureDefinition, answers: Record<string, unknown>): RunView {
-  let state: RunState = startRun(procedure);
-  for (;;) {
-    const view = walkRun(procedure, state);
-    if (!view.current) return view;
-    const key = view.current.key;
-    if (!(key in answers)) throw new Error(`the walk reached ${key}, which the test gave no answer for`);
-    const result = answerStep(procedure, state, {
-      stepKey: key,
-      answer: answers[key],
-      cautionAcknowledged: true,
-    });
-    if (!result.ok) throw new Error(`${key}: ${result.error}`);
-    state = result.state;
-  }
-}
+const walk = walkWith;
 
 const V = (value: number) => ({ value, unit: 'V' });
 const keys = (view: RunView) => view.outcome!.findings.map((f) => f.key);

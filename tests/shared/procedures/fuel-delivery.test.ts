@@ -1,35 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import {
-  answerStep,
-  startRun,
-  walkRun,
-  type RunState,
-  type RunView,
-} from '../../../shared/procedures/engine';
+import type { RunView } from '../../../shared/procedures/engine';
+import { walkWith } from '../../helpers/procedures';
 import { fuelDelivery } from '../../../shared/procedures/fuel-delivery';
 import type { MachineSpec } from '../../../shared/procedures/specs';
 import { psiToKpa } from '../../../shared/units';
 
 type Answers = Record<string, unknown>;
 
-/** Walks the fuel check with the given answers, acknowledging every caution as the mechanic would. */
-function walk(answers: Answers, spec?: MachineSpec): RunView {
-  let state: RunState = startRun(fuelDelivery);
-  for (;;) {
-    const view = walkRun(fuelDelivery, state, { spec });
-    if (!view.current) return view;
-    const key = view.current.key;
-    if (!(key in answers)) throw new Error(`the walk reached ${key}, which the test gave no answer for`);
-    const result = answerStep(
-      fuelDelivery,
-      state,
-      { stepKey: key, answer: answers[key], cautionAcknowledged: true },
-      { spec },
-    );
-    if (!result.ok) throw new Error(`${key}: ${result.error}`);
-    state = result.state;
-  }
-}
+const walk = (answers: Answers, spec?: MachineSpec): RunView => walkWith(fuelDelivery, answers, spec);
 
 const V = (value: number) => ({ value, unit: 'V' });
 const psi = (value: number) => ({ value, unit: 'psi' });
