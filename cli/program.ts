@@ -1,4 +1,5 @@
 import { Command, CommanderError } from 'commander';
+import { calcCommand } from './commands/calc';
 import { healthCommand } from './commands/health';
 import { UsageError, type CliDeps } from './lib/deps';
 import { theme } from './ui/theme';
@@ -18,12 +19,20 @@ export function buildProgram(deps: CliDeps) {
       outputError: () => {}, // printed once, in one line, by runCli
     })
     .exitOverride();
-  for (const command of [healthCommand(deps)]) {
-    // addCommand does not pass the parent's output and exit settings down; without them a
-    // subcommand's bad option would print commander's own text and exit 1 instead of 2.
-    program.addCommand(command.copyInheritedSettings(program));
+  for (const command of [healthCommand(deps), calcCommand(deps)]) {
+    program.addCommand(command);
+    inheritSettings(command, program);
   }
   return program;
+}
+
+/**
+ * addCommand does not pass the parent's output and exit settings down; without them a
+ * subcommand's bad option would print commander's own text and exit 1 instead of 2.
+ */
+function inheritSettings(command: Command, parent: Command) {
+  command.copyInheritedSettings(parent);
+  for (const child of command.commands) inheritSettings(child, command);
 }
 
 /** Runs the CLI and returns its exit code: 0 done, 1 the server said no, 2 bad input. */

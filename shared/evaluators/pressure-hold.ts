@@ -91,7 +91,8 @@ export function evaluatePressureHold(input: PressureHoldInput): Evaluation<Press
   const points = sortPoints(input.points);
   const endSec = minutes * 60;
   const startIndex = points.findIndex((p) => p.sec >= SETTLE_SECONDS);
-  const start = startIndex === -1 ? undefined : points[startIndex];
+  // A first settled reading after the hold's end leaves nothing to measure a drop over.
+  const start = startIndex === -1 || points[startIndex]!.sec > endSec ? undefined : points[startIndex];
   // Without a settled point, show what was measured so the chart and figures are not blank.
   const window = start ? points.slice(startIndex).filter((p) => p.sec <= endSec) : points;
   const startKpa = start?.kpa ?? points[0]?.kpa ?? 0;
@@ -128,7 +129,7 @@ export function evaluatePressureHold(input: PressureHoldInput): Evaluation<Press
   if (!start) {
     return {
       verdict: 'warn',
-      reason: `Not enough of the test to judge: no reading at or after ${SETTLE_SECONDS} s, when settling ends`,
+      reason: `Not enough of the test to judge: no reading between ${SETTLE_SECONDS} s, when settling ends, and ${minutesText(minutes)}`,
       figures,
     };
   }

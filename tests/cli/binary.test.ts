@@ -13,7 +13,6 @@ describe('the built vanbay binary', () => {
   let server: Server;
   let url: string;
   beforeAll(async () => {
-    await execa('node', ['node_modules/tsx/dist/cli.mjs', 'cli/build.ts']);
     database = await cloneDatabase('empty');
     server = createApp({ db: database.db }).listen(0, '127.0.0.1');
     await new Promise((resolve) => server.once('listening', resolve));

@@ -6,6 +6,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { PGlite } from '@electric-sql/pglite';
+import { execa } from 'execa';
 import type { TestProject } from 'vitest/node';
 import { fromPglite } from '../../server/db/client';
 import { migrate } from '../../server/db/migrate';
@@ -16,6 +17,8 @@ import { SEED_TODAY } from './fixtures';
 export default async function setup(project: TestProject) {
   const dir = mkdtempSync(path.join(tmpdir(), 'vanbay-templates-'));
   const build = ensureClientBuilt();
+  // Built once here: two test files building it at once could run a half-written bundle.
+  const cli = execa('node', ['node_modules/tsx/dist/cli.mjs', 'cli/build.ts']);
 
   const client = await PGlite.create();
   const database = fromPglite(client);
@@ -27,6 +30,7 @@ export default async function setup(project: TestProject) {
   writeFileSync(seededTemplatePath, Buffer.from(await (await client.dumpDataDir('none')).arrayBuffer()));
   await database.close();
   await build;
+  await cli;
 
   project.provide('emptyTemplatePath', emptyTemplatePath);
   project.provide('seededTemplatePath', seededTemplatePath);

@@ -266,3 +266,20 @@ describe('evaluatePressureHold', () => {
     );
   });
 });
+
+describe('a hold whose first settled reading comes after the hold ends', () => {
+  it('has nothing to measure a drop over, so it does not invent one', () => {
+    // CONTRACT.md: the drop runs from the first point at or after 30 s to M minutes; a first
+    // settled point at 90 s in a 1-minute hold leaves that window empty.
+    const result = evaluatePressureHold({
+      points: [
+        { sec: 0, kpa: psiToKpa(43) },
+        { sec: 90, kpa: psiToKpa(40) },
+      ],
+      maxDropKpa: psiToKpa(4),
+      minutes: 1,
+    });
+    expect(result.verdict).toBe('warn');
+    expect(result.reason).toMatch(/not enough of the test/i);
+  });
+});
