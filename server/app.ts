@@ -8,8 +8,14 @@ import express, { type ErrorRequestHandler, type RequestHandler } from 'express'
 import morgan from 'morgan';
 import type { ErrorBody } from '../shared/api/errors';
 import type { Db } from './db/client';
+import { randomBytes } from 'node:crypto';
+import { authenticate } from './auth/middleware';
 import { HttpError, NotFoundError } from './errors';
+import { authRouter } from './routes/auth';
+import { customersRouter } from './routes/customers';
+import type { RouteDeps } from './routes/deps';
 import { healthRouter } from './routes/health';
+import { createSignInLimits } from './services/auth';
 
 export interface AppDeps {
   db: Db;
@@ -17,12 +23,22 @@ export interface AppDeps {
   clientDir?: string;
   /** Request log lines go here; omitted means no request log. */
   log?: (line: string) => void;
+  /** Signs session tokens (server/auth/secret.ts); a fresh random key when omitted, as in tests. */
+  secret?: Uint8Array;
+  /** The clock every route reads; tests pass a fixed one. */
+  clock?: () => Date;
 }
 
 /** JSON bodies larger than this are refused with 413 before any route sees them. */
 export const JSON_BODY_LIMIT = '100kb';
 
-export function createApp({ db, clientDir, log }: AppDeps) {
+export function createApp({
+  db,
+  clientDir,
+  log,
+  secret = new Uint8Array(randomBytes(32)),
+  clock = () => new Date(),
+}: AppDeps) {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -37,6 +53,11 @@ export function createApp({ db, clientDir, log }: AppDeps) {
 
   app.use('/api', express.json({ limit: JSON_BODY_LIMIT, strict: true }));
   app.use(healthRouter(db));
+  const auth = { db, secret, now: clock };
+  app.use('/api', authenticate(auth));
+  app.use(authRouter({ ...auth, limits: createSignInLimits() }));
+  const deps: RouteDeps = { db, now: clock };
+  for (const router of [customersRouter]) app.use(router(deps));
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route')));
 
   if (clientDir && existsSync(path.join(clientDir, 'index.html'))) {

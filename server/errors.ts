@@ -31,3 +31,15 @@ export class ConflictError extends HttpError {
     super(409, 'conflict', message, details);
   }
 }
+
+export class UnauthorizedError extends HttpError {
+  constructor(message = 'Sign in first.', code = 'unauthorized') {
+    super(401, code, message);
+  }
+}
+
+export class ForbiddenError extends HttpError {
+  constructor(message = 'Your role may not do this.') {
+    super(403, 'forbidden', message);
+  }
+}

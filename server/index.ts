@@ -6,6 +6,7 @@ import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { pathToFileURL } from 'node:url';
 import { createApp } from './app';
+import { loadSessionSecret } from './auth/secret';
 import { CLIENT_DIR, ensureClientBuilt } from './build-client';
 import { readConfig, type ServerConfig } from './config';
 import { lockDataDir } from './data-dir-lock';
@@ -48,6 +49,7 @@ export async function startServer({
   let server: Server;
   const app = createApp({
     db: database.db,
+    secret: loadSessionSecret(config.dataDir),
     ...(serveClient ? { clientDir: CLIENT_DIR } : {}),
     ...(process.env.VANBAY_REQUEST_LOG === 'off' ? {} : { log }),
   });

@@ -272,7 +272,8 @@ export function calcCommand(deps: CliDeps) {
     .argument('<to>')
     .action((value: string, from: string, to: string, _o: unknown, command: Command) => {
       const result = runConvert(value, from, to);
-      print(deps, command, result, `${result.value} ${result.unit}`);
+      // The JSON keeps every digit; the line for the eye keeps four decimals.
+      print(deps, command, result, `${round(result.value, 4)} ${result.unit}`);
     });
 
   sub('battery', 'state of charge from the resting voltage')

@@ -141,6 +141,24 @@ export const users = pgTable(
 );
 
 /**
+ * Sessions signed out before they expire. A token whose id is listed here is refused; rows past
+ * their expiry can be dropped, since the token would be refused for its age anyway.
+ */
+export const revokedSessions = pgTable(
+  'revoked_sessions',
+  {
+    jti: uuid().primaryKey(),
+    businessId: businessRef(),
+    userId: integer()
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    expiresAt: tstz().notNull(),
+    revokedAt: tstz().notNull().defaultNow(),
+  },
+  (t) => [index('revoked_sessions_expires_idx').on(t.expiresAt)],
+);
+
+/**
  * A machine and the specs read from its service manual. A null spec means "use Vanbay's generic
  * default", which every screen labels "generic — confirm in the service manual".
  */
