@@ -12,8 +12,8 @@ import { randomBytes } from 'node:crypto';
 import { authenticate } from './auth/middleware';
 import { HttpError, NotFoundError } from './errors';
 import { authRouter } from './routes/auth';
-import { customersRouter } from './routes/customers';
 import type { RouteDeps } from './routes/deps';
+import { apiRouters } from './routes/index';
 import { healthRouter } from './routes/health';
 import { createSignInLimits } from './services/auth';
 
@@ -27,6 +27,8 @@ export interface AppDeps {
   secret?: Uint8Array;
   /** The clock every route reads; tests pass a fixed one. */
   clock?: () => Date;
+  /** Where attachment files are stored: the data dir's `uploads/`. */
+  uploadsDir: string;
 }
 
 /** JSON bodies larger than this are refused with 413 before any route sees them. */
@@ -38,6 +40,7 @@ export function createApp({
   log,
   secret = new Uint8Array(randomBytes(32)),
   clock = () => new Date(),
+  uploadsDir,
 }: AppDeps) {
   const app = express();
   app.disable('x-powered-by');
@@ -56,8 +59,8 @@ export function createApp({
   const auth = { db, secret, now: clock };
   app.use('/api', authenticate(auth));
   app.use(authRouter({ ...auth, limits: createSignInLimits() }));
-  const deps: RouteDeps = { db, now: clock };
-  for (const router of [customersRouter]) app.use(router(deps));
+  const deps: RouteDeps = { db, now: clock, uploadsDir };
+  for (const router of apiRouters(deps)) app.use(router);
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route')));
 
   if (clientDir && existsSync(path.join(clientDir, 'index.html'))) {

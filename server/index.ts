@@ -3,6 +3,7 @@
  * first run, serves the API and the built dashboard, and closes the database on SIGINT/SIGTERM.
  */
 import type { Server } from 'node:http';
+import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { pathToFileURL } from 'node:url';
 import { createApp } from './app';
@@ -50,6 +51,7 @@ export async function startServer({
   const app = createApp({
     db: database.db,
     secret: loadSessionSecret(config.dataDir),
+    uploadsDir: path.join(config.dataDir, 'uploads'),
     ...(serveClient ? { clientDir: CLIENT_DIR } : {}),
     ...(process.env.VANBAY_REQUEST_LOG === 'off' ? {} : { log }),
   });

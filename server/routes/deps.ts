@@ -5,4 +5,6 @@ export interface RouteDeps {
   db: Db;
   /** The clock: tests pass a fixed one. */
   now: () => Date;
+  /** Where uploaded attachment files are kept (the data dir's `uploads/`). */
+  uploadsDir: string;
 }

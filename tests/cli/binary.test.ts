@@ -4,7 +4,7 @@ import { execa } from 'execa';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/app';
 import type { Database } from '../../server/db/client';
-import { cloneDatabase } from '../helpers/db';
+import { cloneDatabase, tempUploadsDir } from '../helpers/db';
 
 const BIN = 'cli/dist/vanbay.js';
 
@@ -14,7 +14,7 @@ describe('the built vanbay binary', () => {
   let url: string;
   beforeAll(async () => {
     database = await cloneDatabase('empty');
-    server = createApp({ db: database.db }).listen(0, '127.0.0.1');
+    server = createApp({ db: database.db, uploadsDir: tempUploadsDir() }).listen(0, '127.0.0.1');
     await new Promise((resolve) => server.once('listening', resolve));
     url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   });

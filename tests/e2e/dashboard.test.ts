@@ -7,7 +7,7 @@ import { createApp } from '../../server/app';
 import { CLIENT_DIR } from '../../server/build-client';
 import type { Database } from '../../server/db/client';
 import { launchBrowser, SCREENSHOT_DIR } from '../helpers/browser';
-import { cloneDatabase } from '../helpers/db';
+import { cloneDatabase, tempUploadsDir } from '../helpers/db';
 
 describe('the dashboard in Chromium', () => {
   let database: Database;
@@ -18,7 +18,10 @@ describe('the dashboard in Chromium', () => {
   const requested: string[] = [];
   beforeAll(async () => {
     database = await cloneDatabase('seeded');
-    server = createApp({ db: database.db, clientDir: CLIENT_DIR }).listen(0, '127.0.0.1');
+    server = createApp({ db: database.db, clientDir: CLIENT_DIR, uploadsDir: tempUploadsDir() }).listen(
+      0,
+      '127.0.0.1',
+    );
     await new Promise((resolve) => server.once('listening', resolve));
     url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
     browser = await launchBrowser();

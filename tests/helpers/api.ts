@@ -3,7 +3,7 @@ import { createApp } from '../../server/app';
 import type { Database } from '../../server/db/client';
 import { DEMO_PASSWORD, demoUsers } from '../../server/db/seed-data';
 import type { Role } from '../../shared/api/users';
-import { cloneDatabase } from './db';
+import { cloneDatabase, tempUploadsDir } from './db';
 import { SEED_TODAY } from './fixtures';
 
 export type Caller = Role | 'anonymous';
@@ -27,7 +27,7 @@ export async function seededApi(): Promise<TestApi> {
       this.now = date;
     },
   };
-  const app = createApp({ db: database.db, clock: () => clock.now });
+  const app = createApp({ db: database.db, clock: () => clock.now, uploadsDir: tempUploadsDir() });
   const tokens = {} as Record<Role, string>;
   for (const user of demoUsers) {
     const response = await request(app)

@@ -7,7 +7,7 @@ import { ErrorBodySchema } from '../../shared/api/errors';
 import { HealthSchema } from '../../shared/api/health';
 import { createApp } from '../../server/app';
 import type { Database } from '../../server/db/client';
-import { cloneDatabase } from '../helpers/db';
+import { cloneDatabase, tempUploadsDir } from '../helpers/db';
 
 describe('the app shell', () => {
   let database: Database;
@@ -18,7 +18,7 @@ describe('the app shell', () => {
     clientDir = mkdtempSync(path.join(tmpdir(), 'vanbay-client-'));
     writeFileSync(path.join(clientDir, 'index.html'), '<!doctype html><title>Vanbay shell</title>');
     writeFileSync(path.join(clientDir, 'app.js'), 'console.log("asset")');
-    app = createApp({ db: database.db, clientDir });
+    app = createApp({ db: database.db, clientDir, uploadsDir: tempUploadsDir() });
   });
   afterAll(() => database.close());
 
@@ -67,7 +67,7 @@ describe('the app shell', () => {
 
   it('says it is not healthy once the database is gone', async () => {
     const lost = await cloneDatabase('empty');
-    const orphan = createApp({ db: lost.db });
+    const orphan = createApp({ db: lost.db, uploadsDir: tempUploadsDir() });
     await lost.close();
     const response = await request(orphan).get('/api/health').expect(503);
     expect(response.body).toEqual({ ok: false });

@@ -1,0 +1,21 @@
+/**
+ * Every resource router, in one list for app.ts. Each group file is owned by the part of the API
+ * it serves, so work on one resource does not touch another's wiring.
+ */
+import type { Router } from 'express';
+import { customersRouter } from './customers';
+import type { RouteDeps } from './deps';
+import { jobRecordRouters } from './group-job-records';
+import { moneyRouters } from './group-money';
+import { usersRouter } from './users';
+import { workshopRouters } from './group-workshop';
+
+export function apiRouters(deps: RouteDeps): Router[] {
+  return [
+    customersRouter(deps),
+    usersRouter(deps),
+    ...workshopRouters(deps),
+    ...jobRecordRouters(deps),
+    ...moneyRouters(deps),
+  ];
+}
