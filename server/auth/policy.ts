@@ -29,6 +29,7 @@ export const POLICY = {
   invoices: { list: BOOKS_AND_CUSTOMER, read: BOOKS_AND_CUSTOMER, create: OWNER, update: OWNER },
   payments: { list: BOOKS_AND_CUSTOMER, create: OWNER },
   trips: { list: STAFF, read: STAFF, create: WORKSHOP, update: WORKSHOP, delete: OWNER },
+  serviceIntervals: { list: STAFF, create: WORKSHOP, update: WORKSHOP, delete: OWNER },
   reminders: { list: STAFF, create: OWNER, update: OWNER },
   reports: { read: BOOKS },
   outbox: { list: OWNER },

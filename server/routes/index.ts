@@ -4,6 +4,7 @@
  */
 import type { Router } from 'express';
 import { customersRouter } from './customers';
+import { careRouters } from './group-care';
 import type { RouteDeps } from './deps';
 import { jobRecordRouters } from './group-job-records';
 import { moneyRouters } from './group-money';
@@ -17,5 +18,6 @@ export function apiRouters(deps: RouteDeps): Router[] {
     ...workshopRouters(deps),
     ...jobRecordRouters(deps),
     ...moneyRouters(deps),
+    ...careRouters(deps),
   ];
 }

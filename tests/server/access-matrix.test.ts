@@ -6,6 +6,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { as, seededApi, type TestApi } from '../helpers/api';
+import { careRows } from './access/care';
 import { coreRows } from './access/core';
 import { loadFixtures } from './access/fixtures';
 import { jobRecordRows } from './access/job-records';
@@ -13,7 +14,7 @@ import { moneyRows } from './access/money';
 import { CALLERS, type Fixtures } from './access/types';
 import { workshopRows } from './access/workshop';
 
-const ROWS = [...coreRows, ...workshopRows, ...jobRecordRows, ...moneyRows];
+const ROWS = [...coreRows, ...workshopRows, ...jobRecordRows, ...moneyRows, ...careRows];
 
 let api: TestApi;
 let fixtures: Fixtures;

@@ -1,0 +1,3 @@
+import type { AccessRow } from './types';
+
+export const careRows: AccessRow[] = [];
