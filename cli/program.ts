@@ -1,6 +1,9 @@
 import { Command, CommanderError } from 'commander';
 import { calcCommand } from './commands/calc';
 import { healthCommand } from './commands/health';
+import { loginCommand } from './commands/login';
+import { logoutCommand } from './commands/logout';
+import { whoamiCommand } from './commands/whoami';
 import { UsageError, type CliDeps } from './lib/deps';
 import { theme } from './ui/theme';
 
@@ -19,7 +22,13 @@ export function buildProgram(deps: CliDeps) {
       outputError: () => {}, // printed once, in one line, by runCli
     })
     .exitOverride();
-  for (const command of [healthCommand(deps), calcCommand(deps)]) {
+  for (const command of [
+    healthCommand(deps),
+    loginCommand(deps),
+    logoutCommand(deps),
+    whoamiCommand(deps),
+    calcCommand(deps),
+  ]) {
     program.addCommand(command);
     inheritSettings(command, program);
   }
@@ -48,6 +57,10 @@ export async function runCli(argv: string[], deps: CliDeps): Promise<number> {
       if (error.exitCode === 0) return 0;
       deps.stderr.write(`${theme.error(oneLine(error.message.replace(/^error: /, '')))}\n`);
       return 2;
+    }
+    if (error instanceof Error && error.name === 'ExitPromptError') {
+      // Ctrl-C at a prompt: quietly, with the shell's code for an interrupt.
+      return 130;
     }
     if (error instanceof UsageError || (error instanceof Error && error.name === 'ZodError')) {
       deps.stderr.write(`${theme.error(oneLine(error.message))}\n`);

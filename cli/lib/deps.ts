@@ -3,11 +3,20 @@ export interface Output {
   write(text: string): void;
 }
 
+/** The questions a command may ask when a flag is missing and a person is at the keyboard. */
+export interface Prompter {
+  input(options: { message: string; default?: string }): Promise<string>;
+  password(options: { message: string }): Promise<string>;
+}
+
 export interface CliDeps {
   fetch: typeof fetch;
   env: NodeJS.ProcessEnv;
   stdout: Output;
   stderr: Output;
+  /** True when stdin and stdout are a terminal: only then may a command prompt. */
+  interactive?: boolean;
+  prompt?: Prompter;
 }
 
 export const DEFAULT_SERVER = 'http://localhost:5180';
