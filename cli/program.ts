@@ -1,7 +1,10 @@
 import { Command, CommanderError } from 'commander';
 import { calcCommand } from './commands/calc';
+import { checkCommand } from './commands/check';
 import { healthCommand } from './commands/health';
 import { loginCommand } from './commands/login';
+import { readingCommand } from './commands/reading';
+import { statusCommand, syncCommand } from './commands/sync';
 import { logoutCommand } from './commands/logout';
 import { whoamiCommand } from './commands/whoami';
 import { UsageError, type CliDeps } from './lib/deps';
@@ -27,6 +30,10 @@ export function buildProgram(deps: CliDeps) {
     loginCommand(deps),
     logoutCommand(deps),
     whoamiCommand(deps),
+    readingCommand(deps),
+    checkCommand(deps),
+    syncCommand(deps),
+    statusCommand(deps),
     calcCommand(deps),
   ]) {
     program.addCommand(command);
