@@ -5,6 +5,7 @@ import { healthCommand } from './commands/health';
 import { loginCommand } from './commands/login';
 import { readingCommand } from './commands/reading';
 import { statusCommand, syncCommand } from './commands/sync';
+import { weekCommand } from './commands/week';
 import { logoutCommand } from './commands/logout';
 import { whoamiCommand } from './commands/whoami';
 import { UsageError, type CliDeps } from './lib/deps';
@@ -34,6 +35,7 @@ export function buildProgram(deps: CliDeps) {
     checkCommand(deps),
     syncCommand(deps),
     statusCommand(deps),
+    weekCommand(deps),
     calcCommand(deps),
   ]) {
     program.addCommand(command);

@@ -109,7 +109,8 @@ function showOutcome(deps: CliDeps, view: RunView) {
   for (const finding of outcome.findings) deps.stderr.write(`  • ${finding.title}: ${finding.detail}\n`);
   if (outcome.diagnosis && outcome.diagnosis.causes.length > 0) {
     deps.stderr.write(`${theme.strong('Probable causes')}\n`);
-    for (const cause of outcome.diagnosis.causes) {
+    // The three most likely are what the mechanic acts on; the rest are in the saved run.
+    for (const cause of outcome.diagnosis.causes.slice(0, 3)) {
       deps.stderr.write(
         `  ${cause.likelihood.padEnd(6)} ${cause.title} — ${cause.evidence.filter((e) => !e.startsWith('Against')).join('; ')}\n`,
       );
