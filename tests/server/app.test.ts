@@ -61,7 +61,7 @@ describe('the app shell', () => {
   });
 
   it('does not answer API paths with the dashboard shell', async () => {
-    const response = await request(app).get('/api/jobs/42').expect(404);
+    const response = await request(app).get('/api/no-such-route/42').expect(404);
     expect(response.text).not.toContain('Vanbay shell');
   });
 
