@@ -10,22 +10,15 @@ import { eq, sql } from 'drizzle-orm';
 import { invoiceTotals, type MoneyLine } from '../../shared/money';
 import { withCheckDigit } from '../../shared/vin';
 import { JOB_STATUSES, type JobStatus, type LineItemKind } from '../../shared/api/jobs';
-import { CANONICAL_UNITS } from '../../shared/api/readings';
 import { round } from '../../shared/evaluators/types';
 import { batteryCharging } from '../../shared/procedures/battery-charging';
 import { compression } from '../../shared/procedures/compression';
 import { startRun, walkRun, type RunState } from '../../shared/procedures/engine';
 import { fuelDelivery } from '../../shared/procedures/fuel-delivery';
+import { stepReadings } from '../../shared/procedures/readings';
 import { GENERIC_FUEL_SPEC, type MachineSpec } from '../../shared/procedures/specs';
-import type {
-  ListValue,
-  MeasurementValue,
-  ProcedureDefinition,
-  SeriesValue,
-  StepAnswer,
-  StepDefinition,
-} from '../../shared/procedures/types';
-import { convert, kpaToPsi, psiToKpa, type UnitId } from '../../shared/units';
+import type { ProcedureDefinition, StepAnswer } from '../../shared/procedures/types';
+import { kpaToPsi, psiToKpa } from '../../shared/units';
 import type { ServiceItem } from '../../shared/api/reminders';
 import { hashPassword } from '../auth/password';
 import type { Db } from './client';
@@ -667,34 +660,6 @@ function storyAnswers(story: JobStory, spec: DemoSpecs, rng: ReturnType<typeof p
   }
 }
 
-/** The job readings a step's answer holds: one per measurement, per point of a series, per cylinder. */
-function stepReadings(step: StepDefinition, answer: StepAnswer) {
-  return step.fields.flatMap((field) => {
-    const value = answer[field.key];
-    if (value === undefined || field.type === 'choice' || field.type === 'choices') return [];
-    const unit = CANONICAL_UNITS[field.quantity];
-    const reading = (entered: number, enteredUnit: UnitId, atSec: number, note: string | null) => ({
-      quantity: field.quantity,
-      value: convert(entered, enteredUnit, unit),
-      unit,
-      enteredValue: entered,
-      enteredUnit,
-      atSec,
-      note,
-    });
-    if (field.type === 'measurement') {
-      const m = value as MeasurementValue;
-      return [reading(m.value, m.unit, 0, field.label)];
-    }
-    if (field.type === 'series') {
-      const series = value as SeriesValue;
-      return series.points.map((p) => reading(p.value, series.unit, p.sec, null));
-    }
-    const list = value as ListValue;
-    return list.values.map((v, i) => reading(v, list.unit, i * 20, `${field.itemLabel} ${i + 1}`));
-  });
-}
-
 /**
  * One guided check per job, walked through the shared engine with the answers of its story. A
  * job still being diagnosed has only the first half of its answers, as a run paused mid-way.
@@ -745,7 +710,11 @@ async function seedCheck(tx: Tx, input: CheckInput) {
       cautionAcknowledgedAt: definition.caution ? stepAt : null,
       answeredAt: stepAt,
     });
-    const readings = stepReadings(definition, step.answer);
+    // Series points are spread back from the step's time; the rest are read at it.
+    const readings = stepReadings(definition, step.answer).map(({ offsetSec, ...r }) => ({
+      ...r,
+      atSec: -offsetSec,
+    }));
     if (readings.length > 0) {
       await tx.insert(t.readings).values(
         readings.map(({ atSec, ...r }) => ({

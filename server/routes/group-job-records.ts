@@ -1,7 +1,10 @@
 import type { Router } from 'express';
+import { checksRouter } from './checks';
 import type { RouteDeps } from './deps';
+import { lineItemsRouter } from './line-items';
+import { readingsRouter } from './readings';
 
-/** The routers for a job's readings, checks, line items and attachments. */
-export function jobRecordRouters(_deps: RouteDeps): Router[] {
-  return [];
+/** The routers for a job's readings, guided-check runs and line items. */
+export function jobRecordRouters(deps: RouteDeps): Router[] {
+  return [readingsRouter(deps), checksRouter(deps), lineItemsRouter(deps)];
 }
