@@ -11,6 +11,7 @@ const code = await runCli(process.argv.slice(2), {
   prompt: {
     input: async (options) => (await import('@inquirer/prompts')).input(options),
     password: async (options) => (await import('@inquirer/prompts')).password({ ...options, mask: '*' }),
+    search: async (options) => (await import('@inquirer/prompts')).search(options),
   },
 });
 process.exitCode = code;

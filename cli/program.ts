@@ -2,6 +2,7 @@ import { Command, CommanderError } from 'commander';
 import { calcCommand } from './commands/calc';
 import { checkCommand } from './commands/check';
 import { healthCommand } from './commands/health';
+import { jobCommand } from './commands/job';
 import { loginCommand } from './commands/login';
 import { readingCommand } from './commands/reading';
 import { statusCommand, syncCommand } from './commands/sync';
@@ -31,6 +32,7 @@ export function buildProgram(deps: CliDeps) {
     loginCommand(deps),
     logoutCommand(deps),
     whoamiCommand(deps),
+    jobCommand(deps),
     readingCommand(deps),
     checkCommand(deps),
     syncCommand(deps),

@@ -7,6 +7,11 @@ export interface Output {
 export interface Prompter {
   input(options: { message: string; default?: string }): Promise<string>;
   password(options: { message: string }): Promise<string>;
+  /** Search-as-you-type over choices the `source` finds for what has been typed so far. */
+  search?<T>(options: {
+    message: string;
+    source: (term: string | undefined) => Promise<{ name: string; value: T }[]>;
+  }): Promise<T>;
 }
 
 export interface CliDeps {
