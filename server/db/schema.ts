@@ -273,6 +273,11 @@ export const checkRuns = pgTable(
     verdict: verdictEnum(),
     /** Ranked probable causes, next action and suggested line items, as the engine produced them. */
     findings: jsonb(),
+    /**
+     * The machine's limits when the run started (kPa, minutes, L/h; null = generic), so a later
+     * edit of the machine's specs never changes how a stored run re-walks.
+     */
+    spec: jsonb(),
     startedAt: tstz().notNull().defaultNow(),
     finishedAt: tstz(),
     clientId: uuid(),

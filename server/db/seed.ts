@@ -690,6 +690,7 @@ async function seedCheck(tx: Tx, input: CheckInput) {
       verdict: view.outcome?.verdict ?? null,
       findings: view.outcome ? { ...view.outcome, summary: storyDiagnosis[story] } : null,
       startedAt: input.start,
+      spec: machineSpec(machine),
       finishedAt: view.finished ? new Date(input.start.getTime() + 40 * 60_000) : null,
       createdBy: input.actorId,
       createdAt: input.start,

@@ -23,6 +23,7 @@ import {
   type RunView,
 } from '../../shared/procedures/engine';
 import { findProcedure } from '../../shared/procedures/index';
+import type { MachineSpec } from '../../shared/procedures/specs';
 import { stepReadings as sharedStepReadings } from '../../shared/procedures/readings';
 import type { ProcedureDefinition, StepAnswer, StepDefinition } from '../../shared/procedures/types';
 import type { Actor } from '../auth/actor';
@@ -68,11 +69,16 @@ export async function runSteps(db: Reader, run: RunRow): Promise<StepRow[]> {
     .orderBy(t.checkSteps.seq);
 }
 
+/** The limits a run is judged by: those it started with, or the machine's for a run from before. */
+function specOf(run: RunRow, job: JobInScope): MachineSpec {
+  return (run.spec as MachineSpec | null) ?? job.spec;
+}
+
 /** Walks a stored run again, as every read and write of it does. */
 export async function walkStoredRun(db: Reader, job: JobInScope, run: RunRow) {
   const procedure = procedureOf(run);
   const steps = await runSteps(db, run);
-  const view = walkRun(procedure, stateOf(procedure, run, steps), { spec: job.spec });
+  const view = walkRun(procedure, stateOf(procedure, run, steps), { spec: specOf(run, job) });
   return { procedure, steps, view };
 }
 
@@ -287,6 +293,7 @@ export async function createCheckRun(
         procedureVersion: procedure.version,
         ...runColumns(view, now, input.status === 'paused' ? 'paused' : 'in_progress'),
         startedAt: now,
+        spec: job.spec,
         clientId: input.clientId ?? null,
         createdBy: actor.userId,
         createdAt: now,
@@ -328,7 +335,7 @@ export async function answerCheckStep(
     refuseClosed(run, 'test again');
     const procedure = procedureOf(run);
     const steps = await runSteps(tx, run);
-    const result = answerStep(procedure, stateOf(procedure, run, steps), input, { spec: job.spec });
+    const result = answerStep(procedure, stateOf(procedure, run, steps), input, { spec: specOf(run, job) });
     if (!result.ok) throw new BadRequestError(result.error);
     await storeStep(tx, { job, run, procedure, actor, now }, result.step);
     const [updated] = await tx

@@ -381,6 +381,36 @@ describe('saving a whole run at once (offline sync)', () => {
     expect(stored.find((s) => s.stepKey === 'running-pressure')!.verdict).toBe('fail');
   });
 
+  it("judges a stored run by the limits it started with, whatever the machine's specs become", async () => {
+    const run = await startRun({ procedure: 'fuel', steps: steps(), clientId: randomUUID() });
+    const [job] = await api.database.db.select().from(t.jobs).where(eq(t.jobs.id, ownJob));
+    const [machine] = await api.database.db
+      .select()
+      .from(t.machines)
+      .where(eq(t.machines.id, job!.machineId));
+    try {
+      // A manual band of 20–60 psi would pass the 30 psi held throttle that failed under 39–47.
+      await api.database.db
+        .update(t.machines)
+        .set({ fuelPressureMinKpa: 20 * KPA_PER_PSI, fuelPressureMaxKpa: 60 * KPA_PER_PSI })
+        .where(eq(t.machines.id, machine!.id));
+      const reread = await request(api.app)
+        .get(`/api/jobs/${ownJob}/checks/${run.id}`)
+        .set(as(api, 'helper'))
+        .expect(200);
+      const running = CheckRunSchema.parse(reread.body).steps.find((s) => s.stepKey === 'running-pressure')!;
+      expect(running.evaluation!.verdict).toBe('fail');
+    } finally {
+      await api.database.db
+        .update(t.machines)
+        .set({
+          fuelPressureMinKpa: machine!.fuelPressureMinKpa,
+          fuelPressureMaxKpa: machine!.fuelPressureMaxKpa,
+        })
+        .where(eq(t.machines.id, machine!.id));
+    }
+  });
+
   it('saves a run once however often its clientId is sent', async () => {
     const clientId = randomUUID();
     const body = { procedure: 'fuel-delivery', steps: steps().slice(0, 3), clientId, status: 'paused' };

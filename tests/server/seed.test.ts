@@ -7,6 +7,7 @@ import { DEMO_PASSWORD } from '../../server/db/seed-data';
 import * as t from '../../server/db/schema';
 import { JOB_STATUSES } from '../../shared/api/jobs';
 import { walkRun } from '../../shared/procedures/engine';
+import type { MachineSpec } from '../../shared/procedures/specs';
 import { findProcedure, PROCEDURES } from '../../shared/procedures/index';
 import { isValidVin } from '../../shared/vin';
 import { cloneDatabase } from '../helpers/db';
@@ -256,7 +257,7 @@ describe('demo seed', () => {
             cautionAcknowledged: s.cautionAcknowledgedAt !== null,
           })),
         },
-        { spec: machine },
+        { spec: (run.spec as MachineSpec | null) ?? machine },
       );
       expect(view.finished).toBe(run.status === 'finished');
       expect(

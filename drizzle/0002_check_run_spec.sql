@@ -1,0 +1,1 @@
+ALTER TABLE "check_runs" ADD COLUMN "spec" jsonb;
