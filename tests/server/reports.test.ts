@@ -1,0 +1,236 @@
+import Decimal from 'decimal.js';
+import { sql } from 'drizzle-orm';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { queryRows } from '../../server/db/client';
+import { startOfDayIn } from '../../server/services/invoices';
+import { WeekReportSchema, type WeekReport } from '../../shared/api/reports';
+import { as, seededApi, type TestApi } from '../helpers/api';
+import { freshInvoice } from './access/money';
+
+let api: TestApi;
+beforeAll(async () => {
+  api = await seededApi();
+});
+afterAll(() => api.close());
+
+const db = () => api.database.db;
+const TZ = 'America/Denver';
+
+async function week(start: string, caller: 'owner' | 'bookkeeper' = 'owner'): Promise<WeekReport> {
+  const response = await request(api.app)
+    .get('/api/reports/week')
+    .query({ start })
+    .set(as(api, caller))
+    .expect(200);
+  return WeekReportSchema.parse(response.body);
+}
+async function one<T>(query: ReturnType<typeof sql>): Promise<T> {
+  const rows = await queryRows<T>(db(), query);
+  return rows[0]!;
+}
+
+describe('the week report on the seeded week of 2026-11-09', () => {
+  let report: WeekReport;
+  beforeAll(async () => {
+    report = await week('2026-11-09', 'bookkeeper');
+  });
+
+  it('spans seven days on the business calendar', () => {
+    expect(report).toMatchObject({ start: '2026-11-09', end: '2026-11-15', timezone: TZ });
+    expect(report.revenueByDay.map((d) => d.date)).toEqual([
+      '2026-11-09',
+      '2026-11-10',
+      '2026-11-11',
+      '2026-11-12',
+      '2026-11-13',
+      '2026-11-14',
+      '2026-11-15',
+    ]);
+  });
+
+  it('counts the jobs done, matching a hand count and an independent query', async () => {
+    // Hand count from the seed's plan: one job a day Monday to Saturday, two on 11-10 and 11-14
+    // (days 8 and 4 before "today", every fourth day has two); all of them finished: 8.
+    expect(report.jobsDone).toBe(8);
+    const check = await one<{ n: number }>(
+      sql`select count(*)::int as n from jobs where status <> 'cancelled'
+          and (completed_at at time zone ${TZ})::date between '2026-11-09' and '2026-11-15'`,
+    );
+    expect(report.jobsDone).toBe(check.n);
+  });
+
+  it('adds up revenue per day from the invoices issued that week', async () => {
+    // Hand sums of the seeded invoices 34–39 (their totals as the seed issued them):
+    // 11-10: 37 973; 11-11: 39 352 + 22 045 = 61 397; 11-12: 21 336; 11-13: 11 375; 11-14: 15 064.
+    expect(report.revenueByDay.map((d) => d.cents)).toEqual([0, 37_973, 61_397, 21_336, 11_375, 15_064, 0]);
+    // 37 973 + 61 397 + 21 336 + 11 375 + 15 064 = 147 145.
+    expect(report.revenueCents).toBe(147_145);
+    const check = await one<{ cents: number }>(
+      sql`select sum(total_cents)::int as cents from invoices
+          where status <> 'void' and issued_on >= '2026-11-09' and issued_on < '2026-11-16'`,
+    );
+    expect(report.revenueCents).toBe(check.cents);
+  });
+
+  it('adds up the labour hours on those invoices', async () => {
+    const check = await one<{ milli: number }>(
+      sql`select sum(l.quantity_milli)::int as milli from invoice_lines l join invoices i on i.id = l.invoice_id
+          where l.kind = 'labour' and i.status <> 'void' and i.issued_on between '2026-11-09' and '2026-11-15'`,
+    );
+    expect(check.milli).toBeGreaterThan(0);
+    expect(report.hoursBilled).toBe(new Decimal(check.milli).div(1000).toNumber());
+  });
+
+  it('adds up the money collected that week', async () => {
+    // Hand count: the seed pays an invoice 3 days after issue at 11:00; invoices 30 (11-06),
+    // 31 and 32 (11-07) and 33 (11-08) were paid 11-09 to 11-11:
+    // 18 325 + 20 286 + 15 436 + 24 505 = 78 552.
+    expect(report.collectedCents).toBe(78_552);
+    const check = await one<{ cents: number }>(
+      sql`select sum(amount_cents)::int as cents from payments
+          where (received_at at time zone ${TZ})::date between '2026-11-09' and '2026-11-15'`,
+    );
+    expect(report.collectedCents).toBe(check.cents);
+  });
+
+  it('states unpaid and overdue as they stood at the week’s end', () => {
+    // Hand count: open at the end of 11-15 are the seed's unpaid 3 (17 959) and part-paid 5
+    // (5 875 left), and 34–39 issued that week: 37 973 + 39 352 + 22 045 + 21 336 + 11 375 +
+    // 15 064; in all 8 invoices, 170 979 ¢. Overdue (due before 11-15): only 3 and 5, 23 834 ¢.
+    expect(report.unpaid).toEqual({ count: 8, balanceCents: 170_979 });
+    expect(report.overdue).toEqual({ count: 2, balanceCents: 23_834 });
+  });
+
+  it('adds up the week’s miles at the 2026 rate', async () => {
+    const check = await one<{ distance: string }>(
+      sql`select sum(end_odometer::numeric - start_odometer::numeric)::text as distance from trips
+          where odometer_unit = 'mi' and end_odometer is not null
+          and trip_date between '2026-11-09' and '2026-11-15'`,
+    );
+    expect(report.miles).toBe(Number(check.distance));
+    // IRS Notice 2026-10: 72.5 ¢/mi, rounded half up to the cent (decimal.js).
+    expect(report.deductionCents).toBe(
+      new Decimal(check.distance).times('72.5').toDecimalPlaces(0, Decimal.ROUND_HALF_UP).toNumber(),
+    );
+  });
+
+  it('counts the checks finished that week by verdict', async () => {
+    const rows = await queryRows<{ verdict: 'pass' | 'warn' | 'fail'; n: number }>(
+      db(),
+      sql`select verdict, count(*)::int as n from check_runs
+          where verdict is not null and (finished_at at time zone ${TZ})::date between '2026-11-09' and '2026-11-15'
+          group by verdict`,
+    );
+    const expected = { pass: 0, warn: 0, fail: 0 };
+    for (const row of rows) expected[row.verdict] = row.n;
+    expect(report.checks).toEqual(expected);
+    expect(report.checks.pass + report.checks.warn + report.checks.fail).toBeGreaterThan(0);
+  });
+
+  it('lists the machines coming due, most urgent first', async () => {
+    const statuses = report.machinesDue.map((m) => m.status);
+    const rank = { due_soon: 1, due: 2, overdue: 3 } as const;
+    expect([...statuses].sort((a, b) => rank[b] - rank[a])).toEqual(statuses);
+    // Hand arithmetic from the seed: the Quillback 650's fuel filter was last done 2025-10-10,
+    // every 12 months → due 2026-10-10, so overdue on 2026-11-15.
+    expect(report.machinesDue).toContainEqual(
+      expect.objectContaining({
+        machine: 'Kestrel Quillback 650',
+        customerName: 'Jules Marchetti',
+        item: 'fuel_filter',
+        status: 'overdue',
+        dueBy: 'months',
+        dueOn: '2026-10-10',
+      }),
+    );
+    // Independent query of the months rule (whichever limit comes first decides, so a months
+    // limit already passed makes the interval overdue; within 30 days makes it at least due soon).
+    const byMonths = await queryRows<{ id: number; overdue: boolean }>(
+      db(),
+      sql`select id, (last_done_on + every_months * interval '1 month')::date < '2026-11-15' as overdue
+          from service_intervals
+          where every_months is not null
+            and (last_done_on + every_months * interval '1 month')::date <= date '2026-11-15' + 30`,
+    );
+    expect(byMonths.length).toBeGreaterThan(0);
+    for (const interval of byMonths) {
+      const item = report.machinesDue.find((m) => m.serviceIntervalId === interval.id);
+      expect(item, `interval ${interval.id}`).toBeDefined();
+      if (interval.overdue) expect(item!.status).toBe('overdue');
+    }
+  });
+});
+
+describe('the week report as things change', () => {
+  it('keeps a past week’s unpaid as it was, and matches today’s open balances for this week', async () => {
+    const seeded = await one<{ id: number; balance: number }>(
+      sql`select id, balance_cents as balance from invoices where number = 34`,
+    );
+    await request(api.app)
+      .post(`/api/invoices/${seeded.id}/payments`)
+      .set(as(api, 'owner'))
+      .send({ method: 'card', amountCents: seeded.balance })
+      .expect(201);
+    // Paid on 2026-11-18: the week that ended on 11-15 still shows it unpaid.
+    expect((await week('2026-11-09')).unpaid).toEqual({ count: 8, balanceCents: 170_979 });
+    const thisWeek = await week('2026-11-16');
+    const open = await one<{ count: number; cents: number }>(
+      sql`select count(*)::int as count, sum(balance_cents)::int as cents from invoices
+          where status <> 'void' and balance_cents > 0`,
+    );
+    expect(thisWeek.unpaid).toEqual({ count: open.count, balanceCents: open.cents });
+    // This week's collections include the payment just made (2026-11-18 in Denver).
+    expect(thisWeek.collectedCents).toBeGreaterThanOrEqual(seeded.balance);
+  });
+
+  it('leaves void invoices out of revenue and nets refunds out of collections', async () => {
+    const before = await week('2026-11-16');
+    const kept = await freshInvoice(api);
+    const voided = await freshInvoice(api);
+    const during = await week('2026-11-16');
+    // Hand arithmetic: two default test invoices of 39 352 ¢ each, issued 2026-11-18.
+    expect(during.revenueCents - before.revenueCents).toBe(2 * 39_352);
+    expect(during.revenueByDay.find((d) => d.date === '2026-11-18')!.cents).toBeGreaterThanOrEqual(
+      2 * 39_352,
+    );
+    await request(api.app)
+      .patch(`/api/invoices/${voided.id}`)
+      .set(as(api, 'owner'))
+      .send({ status: 'void' })
+      .expect(200);
+    const after = await week('2026-11-16');
+    expect(after.revenueCents - before.revenueCents).toBe(39_352);
+    expect(after.unpaid.count - before.unpaid.count).toBe(1);
+
+    for (const amountCents of [10_000, -2_500]) {
+      await request(api.app)
+        .post(`/api/invoices/${kept.id}/payments`)
+        .set(as(api, 'owner'))
+        .send({ method: 'card', amountCents })
+        .expect(201);
+    }
+    // Hand arithmetic: 10 000 in, 2 500 back out: 7 500 ¢ collected.
+    expect((await week('2026-11-16')).collectedCents - after.collectedCents).toBe(7_500);
+  });
+
+  it('reads the days in the business time zone across the end of daylight saving time', () => {
+    // 15 U.S.C. §260a: DST ends on the first Sunday of November (2026-11-01). Denver is UTC−6
+    // (MDT) at the start of that day and UTC−7 (MST) from the next.
+    expect(startOfDayIn(TZ, '2026-11-01').toISOString()).toBe('2026-11-01T06:00:00.000Z');
+    expect(startOfDayIn(TZ, '2026-11-02').toISOString()).toBe('2026-11-02T07:00:00.000Z');
+  });
+
+  it('refuses a missing or bad start with 400, and the roles the policy leaves out with 403', async () => {
+    for (const query of [{}, { start: '2026-11-9' }, { start: '2026-02-30' }, { start: 'monday' }]) {
+      const response = await request(api.app)
+        .get('/api/reports/week')
+        .query(query)
+        .set(as(api, 'owner'))
+        .expect(400);
+      expect(response.body.error.code).toBe('bad_request');
+    }
+    await request(api.app).get('/api/reports/week?start=2026-11-09').set(as(api, 'helper')).expect(403);
+    await request(api.app).get('/api/reports/week?start=2026-11-09').set(as(api, 'customer')).expect(403);
+  });
+});
