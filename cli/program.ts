@@ -2,10 +2,12 @@ import { Command, CommanderError } from 'commander';
 import { calcCommand } from './commands/calc';
 import { checkCommand } from './commands/check';
 import { healthCommand } from './commands/health';
+import { invoiceCommand } from './commands/invoice';
 import { jobCommand } from './commands/job';
 import { loginCommand } from './commands/login';
 import { readingCommand } from './commands/reading';
 import { statusCommand, syncCommand } from './commands/sync';
+import { tripCommand } from './commands/trip';
 import { weekCommand } from './commands/week';
 import { logoutCommand } from './commands/logout';
 import { whoamiCommand } from './commands/whoami';
@@ -35,6 +37,8 @@ export function buildProgram(deps: CliDeps) {
     jobCommand(deps),
     readingCommand(deps),
     checkCommand(deps),
+    tripCommand(deps),
+    invoiceCommand(deps),
     syncCommand(deps),
     statusCommand(deps),
     weekCommand(deps),

@@ -45,7 +45,12 @@ export async function syncQueue(
   for (const [index, entry] of mine.entries()) {
     try {
       await api.request(entry.write.method, entry.write.path, z.unknown(), {
-        body: { ...entry.write.body, clientId: entry.write.clientId },
+        // A create carries its client id so a replay lands once; an update (ending a trip) is
+        // idempotent by itself and its schema takes no id.
+        body:
+          entry.write.method === 'POST'
+            ? { ...entry.write.body, clientId: entry.write.clientId }
+            : entry.write.body,
       });
       removeQueued(entry);
       result.sent += 1;

@@ -696,41 +696,38 @@ async function seedCheck(tx: Tx, input: CheckInput) {
       createdAt: input.start,
     })
     .returning({ id: t.checkRuns.id });
-  for (const step of view.steps) {
-    const stepAt = new Date(input.start.getTime() + step.seq * 4 * 60_000);
-    const definition = procedure.steps[step.stepKey]!;
-    await tx.insert(t.checkSteps).values({
-      businessId: input.businessId,
-      checkRunId: run!.id,
-      seq: step.seq,
-      stepKey: step.stepKey,
-      answer: step.answer,
-      verdict: step.evaluation?.verdict ?? null,
-      reason: step.evaluation?.reason ?? null,
-      figures: step.evaluation?.figures ?? null,
-      cautionAcknowledgedAt: definition.caution ? stepAt : null,
-      answeredAt: stepAt,
-    });
-    // Series points are spread back from the step's time; the rest are read at it.
-    const readings = stepReadings(definition, step.answer).map(({ offsetSec, ...r }) => ({
-      ...r,
-      atSec: -offsetSec,
-    }));
-    if (readings.length > 0) {
-      await tx.insert(t.readings).values(
-        readings.map(({ atSec, ...r }) => ({
-          ...r,
-          businessId: input.businessId,
-          jobId: input.jobId,
-          checkRunId: run!.id,
-          stepKey: step.stepKey,
-          takenAt: new Date(stepAt.getTime() + atSec * 1000),
-          createdBy: input.actorId,
-          createdAt: stepAt,
-        })),
-      );
-    }
+  // One insert for the run's steps and one for its readings: a first start seeds in a blink.
+  const at = (seq: number) => new Date(input.start.getTime() + seq * 4 * 60_000);
+  if (view.steps.length > 0) {
+    await tx.insert(t.checkSteps).values(
+      view.steps.map((step) => ({
+        businessId: input.businessId,
+        checkRunId: run!.id,
+        seq: step.seq,
+        stepKey: step.stepKey,
+        answer: step.answer,
+        verdict: step.evaluation?.verdict ?? null,
+        reason: step.evaluation?.reason ?? null,
+        figures: step.evaluation?.figures ?? null,
+        cautionAcknowledgedAt: procedure.steps[step.stepKey]!.caution ? at(step.seq) : null,
+        answeredAt: at(step.seq),
+      })),
+    );
   }
+  // Series points are spread back from the step's time; the rest are read at it.
+  const readings = view.steps.flatMap((step) =>
+    stepReadings(procedure.steps[step.stepKey]!, step.answer).map(({ offsetSec, ...r }) => ({
+      ...r,
+      businessId: input.businessId,
+      jobId: input.jobId,
+      checkRunId: run!.id,
+      stepKey: step.stepKey,
+      takenAt: new Date(at(step.seq).getTime() - offsetSec * 1000),
+      createdBy: input.actorId,
+      createdAt: at(step.seq),
+    })),
+  );
+  if (readings.length > 0) await tx.insert(t.readings).values(readings);
 }
 
 /** The machine's manual figures as the machines table stores them (kPa), or none. */

@@ -1,7 +1,9 @@
-import request from 'supertest';
+import { randomBytes } from 'node:crypto';
 import { createApp } from '../../server/app';
 import type { Database } from '../../server/db/client';
-import { DEMO_PASSWORD, demoUsers } from '../../server/db/seed-data';
+import { signSession } from '../../server/auth/tokens';
+import * as t from '../../server/db/schema';
+import { demoUsers } from '../../server/db/seed-data';
 import type { Role } from '../../shared/api/users';
 import { cloneDatabase, tempUploadsDir } from './db';
 import { SEED_TODAY } from './fixtures';
@@ -27,14 +29,15 @@ export async function seededApi(): Promise<TestApi> {
       this.now = date;
     },
   };
-  const app = createApp({ db: database.db, clock: () => clock.now, uploadsDir: tempUploadsDir() });
+  const secret = new Uint8Array(randomBytes(32));
+  const app = createApp({ db: database.db, clock: () => clock.now, uploadsDir: tempUploadsDir(), secret });
+  // Tokens signed directly, as a sign-in would sign them: the password check costs a scrypt per
+  // role per file, and tests/server/auth.test.ts proves the sign-in itself.
   const tokens = {} as Record<Role, string>;
+  const users = await database.db.select().from(t.users);
   for (const user of demoUsers) {
-    const response = await request(app)
-      .post('/api/auth/sign-in')
-      .send({ email: user.email, password: DEMO_PASSWORD })
-      .expect(200);
-    tokens[user.role] = response.body.token as string;
+    const row = users.find((u) => u.email === user.email)!;
+    tokens[user.role] = (await signSession(secret, row, clock.now)).token;
   }
   return { database, app, tokens, clock, close: () => database.close() };
 }

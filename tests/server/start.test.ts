@@ -59,27 +59,6 @@ describe('the server process', () => {
     expect((await child).exitCode).toBe(0);
     expect(await counts()).toEqual(before);
   }, 60_000);
-
-  it('starts empty with VANBAY_SEED=none', async () => {
-    const emptyDir = mkdtempSync(path.join(tmpdir(), 'vanbay-empty-'));
-    try {
-      const child = execa('node', ['node_modules/tsx/dist/cli.mjs', 'server/index.ts'], {
-        env: { VANBAY_DATA_DIR: emptyDir, PORT: '0', HOST: '127.0.0.1', VANBAY_SEED: 'none' },
-        reject: false,
-      });
-      await new Promise<void>((resolve) =>
-        child.stdout!.on('data', (c: Buffer) => /running at/.test(String(c)) && resolve()),
-      );
-      child.kill('SIGTERM');
-      const result = await child;
-      expect(result.stdout).not.toMatch(/Demo sign-ins/);
-      const db = await PGlite.create({ dataDir: path.join(emptyDir, 'pg') });
-      expect((await db.query<{ n: number }>('select count(*)::int n from businesses')).rows[0]!.n).toBe(0);
-      await db.close();
-    } finally {
-      rmSync(emptyDir, { recursive: true, force: true });
-    }
-  }, 60_000);
 });
 
 describe('one server per data dir', () => {
@@ -95,7 +74,8 @@ describe('one server per data dir', () => {
   const run = () =>
     execa('node', ['node_modules/tsx/dist/cli.mjs', 'server/index.ts'], { env, reject: false });
 
-  it('takes over a lock left by a process that is gone, and refuses a second live server', async () => {
+  // A fresh data dir with VANBAY_SEED=none: one first start (initdb is the slow part) serves both.
+  it('starts empty with VANBAY_SEED=none, takes over a lock left by a dead process, refuses a second live server', async () => {
     // A pid far above Linux's default pid_max (4 194 304) cannot belong to a live process.
     writeFileSync(path.join(dir, 'server.pid'), '99999999\n');
     const first = run();
@@ -112,7 +92,12 @@ describe('one server per data dir', () => {
     expect(second.stderr.trim()).toMatch(/^Another Vanbay server \(pid \d+\) is using/);
 
     first.kill('SIGTERM');
-    expect((await first).exitCode).toBe(0);
+    const stopped = await first;
+    expect(stopped.exitCode).toBe(0);
     expect(existsSync(path.join(dir, 'server.pid'))).toBe(false);
+    expect(stopped.stdout).not.toMatch(/Demo sign-ins/);
+    const db = await PGlite.create({ dataDir: path.join(dir, 'pg') });
+    expect((await db.query<{ n: number }>('select count(*)::int n from businesses')).rows[0]!.n).toBe(0);
+    await db.close();
   }, 60_000);
 });

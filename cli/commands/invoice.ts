@@ -1,0 +1,56 @@
+import { Command } from 'commander';
+import { z } from 'zod';
+import { InvoiceListSchema, InvoiceSchema, INVOICES_PATH, type Invoice } from '../../shared/api/invoices';
+import { createApi } from '../lib/api';
+import { UsageError, type CliDeps } from '../lib/deps';
+import { theme } from '../ui/theme';
+
+const GlobalSchema = z.object({ json: z.boolean().optional(), server: z.string().optional() });
+const money = (cents: number) => `$${(cents / 100).toFixed(2)}`;
+
+function line(invoice: Invoice) {
+  const state = invoice.overdue
+    ? theme.fail(`overdue ${invoice.daysOverdue} d`)
+    : invoice.status.replace('_', ' ');
+  return `#${String(invoice.number).padStart(4, '0')}  ${invoice.issuedOn}  ${invoice.customerName.padEnd(20)}  ${money(invoice.totalCents).padStart(10)}  due ${money(invoice.balanceCents).padStart(10)}  ${state}`;
+}
+
+export function invoiceCommand(deps: CliDeps) {
+  const invoice = new Command('invoice').description('invoices: create from a complete job, list');
+  invoice
+    .command('create')
+    .description("invoice a complete job from its line items, at the business's tax settings")
+    .argument('<job>', 'job number')
+    .option('--json', 'print the result as JSON')
+    .action(async (jobText: string, raw: unknown, command: Command) => {
+      const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+      if (!/^\d+$/.test(jobText)) throw new UsageError(`JOB must be a job number, got "${jobText}"`);
+      const created = await createApi(deps, options.server).request('POST', INVOICES_PATH, InvoiceSchema, {
+        body: { jobId: Number(jobText) },
+      });
+      deps.stdout.write(options.json ? `${JSON.stringify(created)}\n` : `${line(created)}\n`);
+    });
+  invoice
+    .command('list')
+    .description('invoices, newest first')
+    .option('--unpaid', 'only those with a balance left')
+    .option('--overdue', 'only those past their due date')
+    .option('--json', 'print the result as JSON')
+    .action(async (raw: { unpaid?: boolean; overdue?: boolean }, command: Command) => {
+      const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+      const page = await createApi(deps, options.server).request('GET', INVOICES_PATH, InvoiceListSchema, {
+        query: {
+          unpaid: raw.unpaid ? 'true' : undefined,
+          status: raw.overdue ? 'overdue' : undefined,
+          limit: 100,
+        },
+      });
+      if (options.json) {
+        deps.stdout.write(`${JSON.stringify(page.items)}\n`);
+        return;
+      }
+      if (page.items.length === 0) deps.stdout.write('no invoices\n');
+      for (const item of page.items) deps.stdout.write(`${line(item)}\n`);
+    });
+  return invoice;
+}
