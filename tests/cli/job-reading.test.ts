@@ -1,6 +1,4 @@
 import { copyFileSync, mkdtempSync, writeFileSync } from 'node:fs';
-import type { Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { sql } from 'drizzle-orm';
@@ -8,22 +6,17 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { listQueue } from '../../cli/lib/queue';
 import { runCli } from '../../cli/program';
 import { queryRows } from '../../server/db/client';
-import { seededApi, type TestApi } from '../helpers/api';
+import { listeningApi, type TestApi } from '../helpers/api';
 import { fakeDeps } from '../helpers/cli';
 
 let api: TestApi;
-let server: Server;
 let url: string;
 beforeAll(async () => {
-  api = await seededApi();
-  server = api.app.listen(0, '127.0.0.1');
-  await new Promise((resolve) => server.once('listening', resolve));
-  url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const listening = await listeningApi();
+  api = listening;
+  url = listening.url;
 });
-afterAll(async () => {
-  await new Promise((resolve) => server.close(resolve));
-  await api.close();
-});
+afterAll(() => api.close());
 
 /** The CLI as the owner, on one config dir, pointed at `target` (the live server by default). */
 function owner(config = mkdtempSync(path.join(tmpdir(), 'vanbay-config-'))) {

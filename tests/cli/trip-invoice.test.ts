@@ -1,27 +1,20 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
-import type { Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { listQueue } from '../../cli/lib/queue';
 import { runCli } from '../../cli/program';
-import { seededApi, type TestApi } from '../helpers/api';
+import { listeningApi, type TestApi } from '../helpers/api';
 import { fakeDeps } from '../helpers/cli';
 
 let api: TestApi;
-let server: Server;
 let url: string;
 beforeAll(async () => {
-  api = await seededApi();
-  server = api.app.listen(0, '127.0.0.1');
-  await new Promise((resolve) => server.once('listening', resolve));
-  url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  const listening = await listeningApi();
+  api = listening;
+  url = listening.url;
 });
-afterAll(async () => {
-  await new Promise((resolve) => server.close(resolve));
-  await api.close();
-});
+afterAll(() => api.close());
 
 const OFFLINE = 'http://127.0.0.1:9';
 

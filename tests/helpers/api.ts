@@ -1,4 +1,6 @@
 import { randomBytes } from 'node:crypto';
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
 import { createApp } from '../../server/app';
 import type { Database } from '../../server/db/client';
 import { signSession } from '../../server/auth/tokens';
@@ -45,4 +47,20 @@ export async function seededApi(): Promise<TestApi> {
 /** Headers for a caller: a Bearer token, or none for the signed-out caller. */
 export function as(api: TestApi, caller: Caller): Record<string, string> {
   return caller === 'anonymous' ? {} : { Authorization: `Bearer ${api.tokens[caller]}` };
+}
+
+/** A seeded app listening on a loopback port, for tests that talk to it over real HTTP (the CLI). */
+export async function listeningApi(): Promise<TestApi & { url: string }> {
+  const api = await seededApi();
+  const server: Server = api.app.listen(0, '127.0.0.1');
+  await new Promise((resolve) => server.once('listening', resolve));
+  const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  return {
+    ...api,
+    url,
+    close: async () => {
+      await new Promise((resolve) => server.close(resolve));
+      await api.close();
+    },
+  };
 }
