@@ -20,6 +20,7 @@ import { parseFieldInput } from '../../shared/procedures/input';
 import type { MachineSpec } from '../../shared/procedures/specs';
 import type { Field, FieldValue, ProcedureDefinition, StepDefinition } from '../../shared/procedures/types';
 import { UNITS } from '../../shared/units';
+import { CheckRunSchema } from '../../shared/api/checks';
 import { createApi, UnreachableError, type Api } from '../lib/api';
 import { UsageError, type CliDeps, type Prompter } from '../lib/deps';
 import { enqueue, newClientId } from '../lib/queue';
@@ -219,6 +220,58 @@ export async function runCheck(
   }
 }
 
+/**
+ * Resumes a run paused in the terminal or the dashboard: its stored answers are walked again here,
+ * the mechanic carries on, and only the difference goes back to the server (steps taken back
+ * with `back`, new ones answered one by one), each re-judged there.
+ */
+export async function runResume(
+  deps: CliDeps,
+  jobText: string,
+  runText: string,
+  options: z.infer<typeof OptionsSchema>,
+) {
+  if (!/^\d+$/.test(jobText) || !/^\d+$/.test(runText))
+    throw new UsageError('give the job number and the check number');
+  if (!deps.interactive || !deps.prompt)
+    throw new UsageError('a guided check needs a terminal to ask its questions in');
+  const jobId = Number(jobText);
+  const api = createApi(deps, options.server);
+  const where = `/api/jobs/${jobId}/checks/${runText}`;
+  const stored = await api.request('GET', where, CheckRunSchema);
+  if (stored.finished) throw new UsageError(`check ${stored.id} is already finished`);
+  const procedure = findProcedure(stored.procedureKey);
+  if (!procedure)
+    throw new UsageError(`check ${stored.id} is a ${stored.procedureKey}, which this CLI does not know`);
+  const { spec } = await machineSpec(api, jobId);
+  const before: RunState = {
+    ...startRun(procedure),
+    steps: stored.steps.map((s) => ({
+      stepKey: s.stepKey,
+      answer: s.answer,
+      cautionAcknowledged: s.cautionAcknowledged,
+    })),
+  };
+  deps.stderr.write(
+    `${theme.strong(procedure.title)} on job ${jobId}: resuming at step ${before.steps.length + 1}\n`,
+  );
+  const walked = await walkInTerminal(deps, deps.prompt, procedure, spec, before);
+  let kept = 0;
+  while (
+    kept < before.steps.length &&
+    kept < walked.state.steps.length &&
+    JSON.stringify(before.steps[kept]) === JSON.stringify(walked.state.steps[kept])
+  ) {
+    kept += 1;
+  }
+  for (let i = before.steps.length; i > kept; i -= 1) await api.request('POST', `${where}/back`, z.unknown());
+  for (const step of walked.state.steps.slice(kept))
+    await api.request('POST', `${where}/steps`, z.unknown(), { body: step });
+  if (walked.paused) await api.request('POST', `${where}/pause`, z.unknown());
+  if (walked.view.finished) showOutcome(deps, walked.view);
+  return { runId: stored.id, view: walked.view, paused: walked.paused };
+}
+
 export function checkCommand(deps: CliDeps) {
   const check = new Command('check').description('guided checks at the roadside');
   check
@@ -241,6 +294,21 @@ export function checkCommand(deps: CliDeps) {
       if (options.json) deps.stdout.write(`${JSON.stringify(summary)}\n`);
       else if (result.saved)
         deps.stdout.write(`${result.paused ? 'paused' : 'saved'} as check ${result.runId}\n`);
+      if (result.view.outcome && result.view.outcome.verdict === 'fail') process.exitCode = 1;
+    });
+  check
+    .command('resume')
+    .description('carry on with a paused check: `vanbay check resume JOB CHECK`')
+    .argument('<job>', 'job number')
+    .argument('<check>', 'check number, as `vanbay check run` printed it')
+    .option('--json', 'print the result as JSON')
+    .action(async (job: string, run: string, raw: unknown, command: Command) => {
+      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+      const result = await runResume(deps, job, run, options);
+      const verdict = result.view.outcome?.verdict ?? result.view.verdict;
+      if (options.json)
+        deps.stdout.write(`${JSON.stringify({ runId: result.runId, paused: result.paused, verdict })}\n`);
+      else deps.stdout.write(`${result.paused ? 'paused' : 'saved'}: check ${result.runId}\n`);
       if (result.view.outcome && result.view.outcome.verdict === 'fail') process.exitCode = 1;
     });
   return check;
