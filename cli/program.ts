@@ -1,4 +1,5 @@
 import { Command, CommanderError } from 'commander';
+import { backupCommand, restoreCommand } from './commands/backup';
 import { calcCommand } from './commands/calc';
 import { checkCommand } from './commands/check';
 import { healthCommand } from './commands/health';
@@ -42,6 +43,8 @@ export function buildProgram(deps: CliDeps) {
     syncCommand(deps),
     statusCommand(deps),
     weekCommand(deps),
+    backupCommand(deps),
+    restoreCommand(deps),
     calcCommand(deps),
   ]) {
     program.addCommand(command);

@@ -11,6 +11,7 @@ import type { Db } from './db/client';
 import { randomBytes } from 'node:crypto';
 import { authenticate } from './auth/middleware';
 import { HttpError, NotFoundError } from './errors';
+import { mailNotSetUp, type Mailer } from './mail/mailer';
 import { authRouter } from './routes/auth';
 import type { RouteDeps } from './routes/deps';
 import { apiRouters } from './routes/index';
@@ -29,6 +30,8 @@ export interface AppDeps {
   clock?: () => Date;
   /** Where attachment files are stored: the data dir's `uploads/`. */
   uploadsDir: string;
+  /** Where mail goes (server/mail/mailer.ts); omitted means the mail routes answer 503. */
+  mailer?: Mailer;
 }
 
 /** JSON bodies larger than this are refused with 413 before any route sees them. */
@@ -41,6 +44,7 @@ export function createApp({
   secret = new Uint8Array(randomBytes(32)),
   clock = () => new Date(),
   uploadsDir,
+  mailer = mailNotSetUp,
 }: AppDeps) {
   const app = express();
   app.disable('x-powered-by');
@@ -59,7 +63,7 @@ export function createApp({
   const auth = { db, secret, now: clock };
   app.use('/api', authenticate(auth));
   app.use(authRouter({ ...auth, limits: createSignInLimits() }));
-  const deps: RouteDeps = { db, now: clock, uploadsDir };
+  const deps: RouteDeps = { db, now: clock, uploadsDir, mailer };
   for (const router of apiRouters(deps)) app.use(router);
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route')));
 

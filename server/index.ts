@@ -15,11 +15,17 @@ import { databaseOptions, openDatabase, type Database } from './db/client';
 import { migrate } from './db/migrate';
 import { seedDemo } from './db/seed';
 import { DEMO_PASSWORD, demoUsers } from './db/seed-data';
+import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
+import { createMailer, type Mailer } from './mail/mailer';
+import { startMailRetries } from './services/mail';
 
 export interface RunningServer {
   url: string;
   server: Server;
   database: Database;
+  /** Where mail goes: SMTP_URL's server, or the local fake (`fake` set) when SMTP_URL is unset. */
+  mailer: Mailer;
+  fake: FakeSmtp | null;
   stop(): Promise<void>;
 }
 
@@ -47,8 +53,25 @@ export async function startServer({
     throw opened.status === 'rejected' ? opened.reason : (built as PromiseRejectedResult).reason;
   }
   const database = opened.value;
+  // Without SMTP_URL, mail goes to a local fake so nothing reaches a real inbox by accident.
+  const smtpUrl = process.env.SMTP_URL?.trim();
+  let fake: FakeSmtp | null = null;
+  try {
+    fake = smtpUrl ? null : await startFakeSmtp();
+  } catch (error) {
+    await database.close();
+    unlock();
+    throw error;
+  }
+  const mailer = createMailer(smtpUrl ? { smtpUrl } : { host: fake!.host, port: fake!.port });
+  log(
+    fake
+      ? `Mail: local test SMTP on 127.0.0.1:${fake.port} (nothing leaves this machine; set SMTP_URL to send).`
+      : `Mail: SMTP via ${mailer.target}`,
+  );
   let server: Server;
   const app = createApp({
+    mailer,
     db: database.db,
     secret: loadSessionSecret(config.dataDir),
     uploadsDir: path.join(config.dataDir, 'uploads'),
@@ -58,12 +81,16 @@ export async function startServer({
   try {
     server = await listen(app, config);
   } catch (error) {
+    mailer.close();
+    await fake?.close();
     await database.close();
     unlock();
     throw error;
   }
   const { port } = server.address() as AddressInfo;
   const url = `http://localhost:${port}`;
+  // Failed mail is tried again on its backoff for as long as the server runs: never lost.
+  const stopRetries = startMailRetries(database.db, mailer, () => new Date());
 
   let stopping: Promise<void> | undefined;
   const stop = () =>
@@ -74,10 +101,13 @@ export async function startServer({
         // Requests still running after a few seconds are cut so the database can close.
         setTimeout(() => server.closeAllConnections(), 3_000).unref();
       });
+      stopRetries();
+      mailer.close();
+      await fake?.close();
       await database.close();
       unlock();
     })());
-  return { url, server, database, stop };
+  return { url, server, database, mailer, fake, stop };
 }
 
 function listen(app: ReturnType<typeof createApp>, config: ServerConfig): Promise<Server> {

@@ -1,6 +1,7 @@
 import { Command } from 'commander';
 import { z } from 'zod';
 import { InvoiceListSchema, InvoiceSchema, INVOICES_PATH, type Invoice } from '../../shared/api/invoices';
+import { OutboxItemSchema, type OutboxItem } from '../../shared/api/outbox';
 import { createApi } from '../lib/api';
 import { UsageError, type CliDeps } from '../lib/deps';
 import { theme } from '../ui/theme';
@@ -16,7 +17,7 @@ function line(invoice: Invoice) {
 }
 
 export function invoiceCommand(deps: CliDeps) {
-  const invoice = new Command('invoice').description('invoices: create from a complete job, list');
+  const invoice = new Command('invoice').description('invoices: create from a complete job, list, send');
   invoice
     .command('create')
     .description("invoice a complete job from its line items, at the business's tax settings")
@@ -52,5 +53,35 @@ export function invoiceCommand(deps: CliDeps) {
       if (page.items.length === 0) deps.stdout.write('no invoices\n');
       for (const item of page.items) deps.stdout.write(`${line(item)}\n`);
     });
+  invoice
+    .command('send')
+    .description('e-mail an invoice with its PDF to the customer (once; --again to send it once more)')
+    .argument('<invoice>', 'invoice id (the `id` in `invoice list --json`)')
+    .option('--again', 'send an invoice that was already sent')
+    .option('--json', 'print the outbox entry as JSON')
+    .action(async (invoiceText: string, raw: { again?: boolean }, command: Command) => {
+      const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+      if (!/^\d+$/.test(invoiceText))
+        throw new UsageError(`INVOICE must be an invoice id, got "${invoiceText}"`);
+      const mail = await createApi(deps, options.server).request(
+        'POST',
+        `${INVOICES_PATH}/${invoiceText}/send`,
+        OutboxItemSchema,
+        { query: { again: raw.again ? 'true' : undefined } },
+      );
+      // The server keeps a failed mail and retries it: accepted, so not an error, but said plainly.
+      if (mail.status !== 'sent') deps.stderr.write(`${notSentYet(mail)}\n`);
+      deps.stdout.write(options.json ? `${JSON.stringify(mail)}\n` : `${sentLine(mail)}\n`);
+    });
   return invoice;
+}
+
+function sentLine(mail: OutboxItem) {
+  const files = mail.attachments.map((a) => a.filename).join(', ');
+  const state = mail.status === 'sent' ? theme.pass('sent') : theme.warn(mail.status);
+  return `${state}  ${mail.subject}  to ${mail.to}${files ? `  (${files})` : ''}`;
+}
+
+function notSentYet(mail: OutboxItem) {
+  return `not sent yet (${mail.lastError ?? mail.status}); the server will try again`;
 }

@@ -1,4 +1,5 @@
 import type { Db } from '../db/client';
+import type { Mailer } from '../mail/mailer';
 
 /** What every resource router is built from. */
 export interface RouteDeps {
@@ -7,4 +8,6 @@ export interface RouteDeps {
   now: () => Date;
   /** Where uploaded attachment files are kept (the data dir's `uploads/`). */
   uploadsDir: string;
+  /** Sends the outbox's mail; a stand-in that answers 503 when the app was given none. */
+  mailer: Mailer;
 }

@@ -3,10 +3,13 @@
  * it serves, so work on one resource does not touch another's wiring.
  */
 import type { Router } from 'express';
+import { backupRouters } from './group-backup';
 import { customersRouter } from './customers';
 import { careRouters } from './group-care';
 import type { RouteDeps } from './deps';
+import { documentRouters } from './group-documents';
 import { jobRecordRouters } from './group-job-records';
+import { mailRouters } from './group-mail';
 import { moneyRouters } from './group-money';
 import { usersRouter } from './users';
 import { workshopRouters } from './group-workshop';
@@ -19,5 +22,8 @@ export function apiRouters(deps: RouteDeps): Router[] {
     ...jobRecordRouters(deps),
     ...moneyRouters(deps),
     ...careRouters(deps),
+    ...backupRouters(deps),
+    ...mailRouters(deps),
+    ...documentRouters(deps),
   ];
 }

@@ -6,15 +6,27 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { as, seededApi, type TestApi } from '../helpers/api';
+import { backupRows } from './access/backup';
 import { careRows } from './access/care';
 import { coreRows } from './access/core';
+import { documentRows } from './access/documents';
 import { loadFixtures } from './access/fixtures';
+import { mailRows } from './access/mail';
 import { jobRecordRows } from './access/job-records';
 import { moneyRows } from './access/money';
 import { CALLERS, type Fixtures } from './access/types';
 import { workshopRows } from './access/workshop';
 
-const ROWS = [...coreRows, ...workshopRows, ...jobRecordRows, ...moneyRows, ...careRows];
+const ROWS = [
+  ...coreRows,
+  ...workshopRows,
+  ...jobRecordRows,
+  ...moneyRows,
+  ...careRows,
+  ...documentRows,
+  ...mailRows,
+  ...backupRows,
+];
 
 let api: TestApi;
 let fixtures: Fixtures;
