@@ -21,7 +21,7 @@ import type { MachineSpec } from '../../shared/procedures/specs';
 import type { Field, FieldValue, ProcedureDefinition, StepDefinition } from '../../shared/procedures/types';
 import { UNITS } from '../../shared/units';
 import { CheckRunSchema } from '../../shared/api/checks';
-import { createApi, UnreachableError, type Api } from '../lib/api';
+import { ApiError, createApi, UnreachableError, type Api } from '../lib/api';
 import { UsageError, type CliDeps, type Prompter } from '../lib/deps';
 import { enqueue, newClientId } from '../lib/queue';
 import { theme } from '../ui/theme';
@@ -126,6 +126,29 @@ function showOutcome(deps: CliDeps, view: RunView) {
   for (const advice of outcome.advice) deps.stderr.write(`${theme.muted(`· ${advice}`)}\n`);
 }
 
+/**
+ * Offers the outcome's suggested lines for the job: labour at the business's rate, parts to be
+ * priced. Only the owner may add lines (prices are theirs); anyone else is told so, not refused.
+ */
+async function offerSuggestedLines(deps: CliDeps, api: Api, jobId: number, runId: number, view: RunView) {
+  if (!view.outcome || view.outcome.lines.length === 0 || !deps.prompt) return;
+  const answer = (
+    await deps.prompt.input({ message: `Add the suggested lines to job ${jobId}? (y/n)`, default: 'y' })
+  )
+    .trim()
+    .toLowerCase();
+  if (answer !== 'y' && answer !== 'yes') return;
+  try {
+    await api.request('POST', `/api/jobs/${jobId}/checks/${runId}/apply-lines`, z.unknown());
+    deps.stderr.write(
+      `${theme.pass('added')}: labour at your rate; enter the parts' prices before invoicing\n`,
+    );
+  } catch (error) {
+    if (error instanceof ApiError) deps.stderr.write(`${theme.warn('not added')}: ${error.message}\n`);
+    else throw error;
+  }
+}
+
 /** Walks the procedure with the mechanic; returns the answers and how it ended. */
 export async function walkInTerminal(
   deps: CliDeps,
@@ -204,6 +227,7 @@ export async function runCheck(
   const path = `/api/jobs/${jobId}/checks`;
   try {
     const saved = await api.request('POST', path, SavedRunSchema, { body: { ...body, clientId } });
+    await offerSuggestedLines(deps, api, jobId, saved.id, walked.view);
     return { saved: true, queued: false, runId: saved.id, view: walked.view, paused: walked.paused };
   } catch (error) {
     if (!(error instanceof UnreachableError)) throw error;

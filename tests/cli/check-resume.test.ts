@@ -105,3 +105,27 @@ describe('vanbay check resume', () => {
     expect(result.run.steps).toHaveLength(2);
   });
 });
+
+describe('vanbay check run, saved to a live server', () => {
+  it("offers the outcome's suggested lines and adds them for the owner", async () => {
+    const io = fakeDeps(fetch, {
+      VANBAY_URL: url,
+      XDG_CONFIG_HOME: mkdtempSync(path.join(tmpdir(), 'vanbay-config-')),
+      VANBAY_TOKEN: api.tokens.owner,
+    });
+    io.deps.interactive = true;
+    // 11.9 V on a flooded battery is about 0–25 % (BCI open-circuit table): the check ends there
+    // with the battery finding and its suggested lines.
+    io.deps.prompt = scripted(['ok', '1', '11.9', 'y']);
+    const code = await runCli(['check', 'run', String(jobId), 'battery', '--json'], io.deps);
+    expect(code).toBe(1);
+    const { runId } = JSON.parse(io.stdout()) as { runId: number };
+    const lines = await request(api.app)
+      .get(`/api/jobs/${jobId}/line-items`)
+      .set(as(api, 'owner'))
+      .expect(200);
+    const fromRun = lines.body.items.filter((l: { checkRunId: number | null }) => l.checkRunId === runId);
+    expect(fromRun.map((l: { description: string }) => l.description)).toContain('Battery charge and test');
+    expect(io.stderr()).toMatch(/enter the parts' prices/);
+  });
+});
