@@ -4,16 +4,12 @@ import '@fontsource/space-grotesk/700.css';
 import './styles.css';
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
-import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { QueryClientProvider } from '@tanstack/react-query';
 import { RouterProvider } from 'react-router/dom';
+import { createQueryClient } from './app/query-client';
 import { createAppRouter } from './app/router';
 
-const queryClient = new QueryClient({
-  defaultOptions: {
-    // Data changes mostly from this one person's own actions, which invalidate what they touch.
-    queries: { staleTime: 30_000 },
-  },
-});
+const queryClient = createQueryClient();
 
 const router = createAppRouter();
 

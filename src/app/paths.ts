@@ -1,6 +1,9 @@
 /** Every client route's path, so the router and the links never drift apart. */
 export const paths = {
-  week: '/',
+  /** Sends each person on to their role's first section (sections.ts, homePathFor). */
+  home: '/',
+  signIn: '/sign-in',
+  week: '/week',
   jobs: '/jobs',
   customers: '/customers',
   invoices: '/invoices',

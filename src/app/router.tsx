@@ -4,14 +4,22 @@ import { AppFrame } from './layout/app-frame';
 import { PageLoading } from './layout/page-loading';
 import { RouteError } from './layout/route-error';
 import { paths } from './paths';
+import { RoleHome } from './routes/home';
 
 /**
- * The frame loads eagerly because every page needs it; each page is its own chunk, fetched when
- * first visited, so the phone on the van's hotspot downloads only what it opens.
+ * The frame loads eagerly because every signed-in page needs it; each page is its own chunk,
+ * fetched when first visited, so the phone on the van's hotspot downloads only what it opens
+ * (the week page's chart library, above all, comes only with the week page).
  */
 export const routes: RouteObject[] = [
   {
-    path: paths.week,
+    path: paths.signIn,
+    ErrorBoundary: RouteError,
+    HydrateFallback: PageLoading,
+    lazy: () => import('./routes/sign-in'),
+  },
+  {
+    path: paths.home,
     Component: AppFrame,
     ErrorBoundary: RouteError,
     children: [
@@ -20,7 +28,8 @@ export const routes: RouteObject[] = [
         ErrorBoundary: RouteError,
         HydrateFallback: PageLoading,
         children: [
-          { index: true, lazy: () => import('./routes/week') },
+          { index: true, Component: RoleHome },
+          { path: paths.week, lazy: () => import('./routes/week') },
           { path: paths.jobs, lazy: () => import('./routes/jobs') },
           { path: paths.customers, lazy: () => import('./routes/customers') },
           { path: paths.invoices, lazy: () => import('./routes/invoices') },

@@ -34,9 +34,13 @@ describe('the dashboard in Chromium', () => {
     await database.close();
   });
 
-  it('opens on the week page and shows the live API status', async () => {
+  it('opens on sign-in with the live API status, then the week page for the owner', async () => {
     await page.goto(url);
     await page.getByText('API online').waitFor();
+    await page.getByLabel('E-mail').fill('owner@ridgeback.test');
+    await page.getByLabel('Password').fill('vanbay-demo-2026');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByRole('navigation', { name: 'Sections' }).waitFor();
     expect(await page.getByRole('navigation').getByRole('link').count()).toBeGreaterThanOrEqual(7);
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'week.png'), fullPage: true });
   });
@@ -68,7 +72,7 @@ describe('the dashboard in Chromium', () => {
 
   it('says when the API is down instead of showing stale or invented data', async () => {
     await page.goto(url);
-    await page.getByText('API online').waitFor();
+    await page.getByText('Server online').waitFor();
     await page.route('**/api/health', (route) => route.abort('connectionrefused'));
     await page.reload();
     await page.getByText(/API unreachable/).waitFor();

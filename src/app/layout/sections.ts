@@ -1,12 +1,71 @@
+import type { Role } from '../../../shared/api/users';
 import { paths } from '../paths';
 
-/** The dashboard's sections in navigation order. Week is home: the desk review starts there. */
-export const sections = [
-  { path: paths.week, label: 'Week' },
-  { path: paths.jobs, label: 'Jobs' },
-  { path: paths.customers, label: 'Customers & machines' },
-  { path: paths.invoices, label: 'Invoices' },
-  { path: paths.mileage, label: 'Mileage' },
-  { path: paths.reminders, label: 'Reminders' },
-  { path: paths.settings, label: 'Settings' },
-] as const;
+export type Section = {
+  path: string;
+  label: string;
+  /** A customer sees only their own records, so their sections are named as theirs. */
+  customerLabel?: string;
+  /** Who may open it: the roles server/auth/policy.ts lets use the resource the section is for. */
+  roles: readonly Role[];
+};
+
+/**
+ * The dashboard's sections in navigation order. The server decides who may do what; this list only
+ * keeps a role from being offered a section the server would refuse. Each `roles` mirrors the policy
+ * row named beside it, narrowed where the section is for a job the role does not do (PRODUCT.md,
+ * "Who uses it"): the bookkeeper may read jobs and reminders, but keeps the books, not the workshop.
+ */
+export const sections: readonly Section[] = [
+  // reports.read
+  { path: paths.week, label: 'Week', roles: ['owner', 'bookkeeper'] },
+  // jobs.list (everyone), less the bookkeeper
+  { path: paths.jobs, label: 'Jobs', customerLabel: 'Your jobs', roles: ['owner', 'helper', 'customer'] },
+  // customers.list and machines.list (everyone); a customer is shown only their own record
+  {
+    path: paths.customers,
+    label: 'Customers & machines',
+    customerLabel: 'Your machines',
+    roles: ['owner', 'helper', 'bookkeeper', 'customer'],
+  },
+  // invoices.list
+  {
+    path: paths.invoices,
+    label: 'Invoices',
+    customerLabel: 'Your invoices',
+    roles: ['owner', 'bookkeeper', 'customer'],
+  },
+  // trips.list
+  { path: paths.mileage, label: 'Mileage', roles: ['owner', 'helper', 'bookkeeper'] },
+  // reminders.list, less the bookkeeper
+  { path: paths.reminders, label: 'Reminders', roles: ['owner', 'helper'] },
+  // users.list and the business's rates: the owner's alone
+  { path: paths.settings, label: 'Settings', roles: ['owner'] },
+];
+
+export function sectionsFor(role: Role): Section[] {
+  return sections.filter((section) => section.roles.includes(role));
+}
+
+export function sectionLabel(section: Section, role: Role): string {
+  return role === 'customer' ? (section.customerLabel ?? section.label) : section.label;
+}
+
+/** The section a path belongs to (its own page or one below it), if any. */
+export function sectionAt(pathname: string): Section | undefined {
+  return sections.find((section) => pathname === section.path || pathname.startsWith(`${section.path}/`));
+}
+
+/** Where a role lands after sign-in: its first section, so a helper starts on Jobs, not a refusal. */
+export function homePathFor(role: Role): string {
+  const first = sectionsFor(role)[0];
+  if (!first) throw new Error(`no section is open to the ${role} role`);
+  return first.path;
+}
+
+/** The label of the section at `path` for `role`. @throws Error for a path that is no section. */
+export function labelOf(path: string, role: Role): string {
+  const section = sectionAt(path);
+  if (!section) throw new Error(`no section at ${path}`);
+  return sectionLabel(section, role);
+}

@@ -1,8 +1,9 @@
 import { NotBuiltYet } from '../layout/not-built-yet';
+import { paths } from '../paths';
 
 export function Component() {
   return (
-    <NotBuiltYet section="Mileage">
+    <NotBuiltYet path={paths.mileage}>
       The van’s trip log will live here: odometer readings, the purpose of each trip and the deduction for the
       tax year.
     </NotBuiltYet>

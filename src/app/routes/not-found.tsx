@@ -1,10 +1,14 @@
 import { Link, useLocation } from 'react-router';
+import { buttonClasses } from '../../components/ui/button';
 import { PageHeading } from '../../components/ui/page-heading';
 import { Panel } from '../../components/ui/panel';
-import { paths } from '../paths';
+import { useSessionUser } from '../../features/session/api/queries';
+import { homePathFor, labelOf } from '../layout/sections';
 
 export function Component() {
   const { pathname } = useLocation();
+  const { role } = useSessionUser();
+  const home = homePathFor(role);
   return (
     <>
       <PageHeading title="Page not found" />
@@ -12,11 +16,8 @@ export function Component() {
         <p className="text-lg">
           There is no page at <code className="font-mono font-bold break-all">{pathname}</code>.
         </p>
-        <Link
-          to={paths.week}
-          className="mt-4 inline-flex min-h-touch items-center rounded-plate bg-coolant px-5 font-bold text-on-coolant"
-        >
-          Back to Week
+        <Link to={home} className={`mt-4 ${buttonClasses()}`}>
+          Back to {labelOf(home, role)}
         </Link>
       </Panel>
     </>

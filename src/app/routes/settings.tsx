@@ -1,8 +1,9 @@
 import { NotBuiltYet } from '../layout/not-built-yet';
+import { paths } from '../paths';
 
 export function Component() {
   return (
-    <NotBuiltYet section="Settings">
+    <NotBuiltYet path={paths.settings}>
       Business details, rates and who may sign in will be set here.
     </NotBuiltYet>
   );

@@ -1,20 +1,37 @@
-import { EmptyState } from '../../components/ui/empty-state';
+import { useState } from 'react';
+import { useSearchParams } from 'react-router';
 import { PageHeading } from '../../components/ui/page-heading';
-import { ApiStatusPanel } from '../../features/health/components/api-status-panel';
+import { WeekPicker } from '../../features/week/components/week-picker';
+import { WeekReview } from '../../features/week/components/week-review';
+import { lastDayOf, mondayOf, weekFromParam } from '../../features/week/week-range';
+import { formatDateRange } from '../../lib/format';
 
+/** The desk review (PRODUCT.md, "Week review"); the week is in the address, `?start=YYYY-MM-DD`. */
 export function Component() {
+  const [search, setSearch] = useSearchParams();
+  // Read once per visit: "this week" should not move under someone reviewing at midnight on Sunday.
+  const [today] = useState(() => new Date());
+  const thisWeek = mondayOf(today);
+  const week = weekFromParam(search.get('start'), today);
   return (
     <>
       <PageHeading title="Week" />
-      <div className="grid gap-6">
-        <ApiStatusPanel />
-        <EmptyState title="The week review is not built yet">
-          <p>
-            Jobs done, hours billed, money in and owed, miles driven and machines coming due will be summed up
-            here once the review is built. Until then this page shows only the API status above.
+      <div className="mb-6 grid gap-4">
+        <p className="text-2xl font-bold" aria-live="polite">
+          {formatDateRange(week.start, lastDayOf(week.start))}
+        </p>
+        {week.understood ? null : (
+          <p className="text-lg text-ink-soft">
+            The address asked for a date that does not exist, so this is the current week.
           </p>
-        </EmptyState>
+        )}
+        <WeekPicker
+          start={week.start}
+          thisWeek={thisWeek}
+          onPickDay={(day) => setSearch({ start: weekFromParam(day, today).start })}
+        />
       </div>
+      <WeekReview start={week.start} />
     </>
   );
 }

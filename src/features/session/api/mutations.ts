@@ -1,0 +1,57 @@
+import { hashKey, useMutation, useQueryClient } from '@tanstack/react-query';
+import type { QueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+import { SIGN_IN_PATH, SIGN_OUT_PATH, SignInResponseSchema } from '../../../../shared/api/auth';
+import type { SessionUser, SignInInput } from '../../../../shared/api/auth';
+import { ApiError, request } from '../../../lib/api-client';
+import { holdsPersonalData } from '../../../lib/query-scope';
+import { sessionQueries } from './queries';
+
+/**
+ * A change of person: drop every answer fetched for the one before (their week, their jobs), then
+ * record who is signed in now. The answer already names the user, so /me need not be asked again.
+ */
+function switchSession(queryClient: QueryClient, user: SessionUser | null) {
+  const meKey = sessionQueries.me().queryKey;
+  const meHash = hashKey(meKey);
+  // The session query itself stays: the frame is watching it, and is about to be told the news.
+  queryClient.removeQueries({ predicate: (query) => holdsPersonalData(query) && query.queryHash !== meHash });
+  queryClient.setQueryData(meKey, user);
+}
+
+export function signIn(input: SignInInput) {
+  // The server sets the httpOnly session cookie; the token in the body is for the CLI, not the page.
+  return request(SIGN_IN_PATH, SignInResponseSchema, {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/json' },
+    body: JSON.stringify(input),
+  });
+}
+
+export function useSignIn() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: signIn,
+    onSuccess: ({ user }) => switchSession(queryClient, user),
+  });
+}
+
+/** Sign-out answers 204 with no body. */
+const NoContentSchema = z.undefined();
+
+export async function signOut(): Promise<void> {
+  try {
+    await request(SIGN_OUT_PATH, NoContentSchema, { method: 'POST' });
+  } catch (error) {
+    // A 401 means the session had already ended (expired or revoked): signed out all the same.
+    if (!(error instanceof ApiError && error.status === 401)) throw error;
+  }
+}
+
+export function useSignOut() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: signOut,
+    onSuccess: () => switchSession(queryClient, null),
+  });
+}
