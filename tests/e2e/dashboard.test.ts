@@ -1,37 +1,25 @@
-import type { Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createApp } from '../../server/app';
-import { CLIENT_DIR } from '../../server/build-client';
-import type { Database } from '../../server/db/client';
 import { launchBrowser, SCREENSHOT_DIR } from '../helpers/browser';
-import { cloneDatabase, tempUploadsDir } from '../helpers/db';
+import { startDashboardServer } from '../helpers/dashboard-server';
 
 describe('the dashboard in Chromium', () => {
-  let database: Database;
-  let server: Server;
+  let dashboard: Awaited<ReturnType<typeof startDashboardServer>>;
   let browser: Browser;
   let page: Page;
   let url: string;
   const requested: string[] = [];
   beforeAll(async () => {
-    database = await cloneDatabase('seeded');
-    server = createApp({ db: database.db, clientDir: CLIENT_DIR, uploadsDir: tempUploadsDir() }).listen(
-      0,
-      '127.0.0.1',
-    );
-    await new Promise((resolve) => server.once('listening', resolve));
-    url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+    dashboard = await startDashboardServer();
+    url = dashboard.url;
     browser = await launchBrowser();
     page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
     page.on('request', (request) => requested.push(request.url()));
   });
   afterAll(async () => {
     await browser?.close();
-    await new Promise((resolve) => server.close(resolve));
-    await database.close();
+    await dashboard?.close();
   });
 
   it('opens on sign-in with the live API status, then the week page for the owner', async () => {

@@ -1,15 +1,10 @@
-import type { Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
 import path from 'node:path';
 import Decimal from 'decimal.js';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createApp } from '../../server/app';
-import { CLIENT_DIR } from '../../server/build-client';
-import type { Database } from '../../server/db/client';
 import { WeekReportSchema } from '../../shared/api/reports';
 import { launchBrowser, SCREENSHOT_DIR } from '../helpers/browser';
-import { cloneDatabase, tempUploadsDir } from '../helpers/db';
+import { startDashboardServer } from '../helpers/dashboard-server';
 
 /** CONTRACT.md, "Demo sign-ins": one password for all. */
 const DEMO_PASSWORD = 'vanbay-demo-2026';
@@ -22,27 +17,20 @@ const usd = new Intl.NumberFormat('en-US', { style: 'currency', currency: 'USD' 
 const dollars = (cents: number) => usd.format(new Decimal(cents).div(100).toFixed(2) as unknown as number);
 
 describe('signing in to the dashboard in Chromium', () => {
-  let database: Database;
-  let server: Server;
+  let dashboard: Awaited<ReturnType<typeof startDashboardServer>>;
   let browser: Browser;
   let url: string;
   const contexts: BrowserContext[] = [];
 
   beforeAll(async () => {
-    database = await cloneDatabase('seeded');
-    server = createApp({ db: database.db, clientDir: CLIENT_DIR, uploadsDir: tempUploadsDir() }).listen(
-      0,
-      '127.0.0.1',
-    );
-    await new Promise((resolve) => server.once('listening', resolve));
-    url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+    dashboard = await startDashboardServer();
+    url = dashboard.url;
     browser = await launchBrowser();
   });
   afterAll(async () => {
     for (const context of contexts) await context.close();
     await browser?.close();
-    await new Promise((resolve) => server.close(resolve));
-    await database.close();
+    await dashboard?.close();
   });
 
   /** A fresh browser profile (no cookie), so each person signs in from nothing. */
