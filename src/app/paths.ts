@@ -10,4 +10,18 @@ export const paths = {
   mileage: '/mileage',
   reminders: '/reminders',
   settings: '/settings',
+  job: '/jobs/:jobId',
+  checkRun: '/jobs/:jobId/checks/:runId',
+  customer: '/customers/:customerId',
+  machine: '/machines/:machineId',
+  invoice: '/invoices/:invoiceId',
+} as const;
+
+/** Links to one record's page. */
+export const pathTo = {
+  job: (id: number) => `/jobs/${id}`,
+  checkRun: (jobId: number, runId: number | 'new') => `/jobs/${jobId}/checks/${runId}`,
+  customer: (id: number) => `/customers/${id}`,
+  machine: (id: number) => `/machines/${id}`,
+  invoice: (id: number) => `/invoices/${id}`,
 } as const;

@@ -1,3 +1,4 @@
+import { isAllowed, type Action, type Resource } from '../../../shared/api/policy';
 import type { Role } from '../../../shared/api/users';
 import { paths } from '../paths';
 
@@ -6,41 +7,48 @@ export type Section = {
   label: string;
   /** A customer sees only their own records, so their sections are named as theirs. */
   customerLabel?: string;
-  /** Who may open it: the roles server/auth/policy.ts lets use the resource the section is for. */
+  /** Who may open it: the roles shared/api/policy.ts lets use the resource the section is for. */
   roles: readonly Role[];
 };
 
 /**
  * The dashboard's sections in navigation order. The server decides who may do what; this list only
- * keeps a role from being offered a section the server would refuse. Each `roles` mirrors the policy
- * row named beside it, narrowed where the section is for a job the role does not do (PRODUCT.md,
+ * keeps a role from being offered a section the server would refuse. Each `roles` comes from the
+ * policy table itself, narrowed where the section is for a job the role does not do (PRODUCT.md,
  * "Who uses it"): the bookkeeper may read jobs and reminders, but keeps the books, not the workshop.
  */
+const ALL_ROLES = ['owner', 'helper', 'bookkeeper', 'customer'] as const satisfies readonly Role[];
+
+/** The roles the policy lets `action` the `resource`, less any the section is not for. */
+function rolesFor(resource: Resource, action: Action, except: readonly Role[] = []): Role[] {
+  return ALL_ROLES.filter((role) => isAllowed(role, resource, action) && !except.includes(role));
+}
+
 export const sections: readonly Section[] = [
-  // reports.read
-  { path: paths.week, label: 'Week', roles: ['owner', 'bookkeeper'] },
-  // jobs.list (everyone), less the bookkeeper
-  { path: paths.jobs, label: 'Jobs', customerLabel: 'Your jobs', roles: ['owner', 'helper', 'customer'] },
-  // customers.list and machines.list (everyone); a customer is shown only their own record
+  { path: paths.week, label: 'Week', roles: rolesFor('reports', 'read') },
+  {
+    path: paths.jobs,
+    label: 'Jobs',
+    customerLabel: 'Your jobs',
+    roles: rolesFor('jobs', 'list', ['bookkeeper']),
+  },
+  // A customer is shown only their own record and machines.
   {
     path: paths.customers,
     label: 'Customers & machines',
     customerLabel: 'Your machines',
-    roles: ['owner', 'helper', 'bookkeeper', 'customer'],
+    roles: rolesFor('machines', 'list'),
   },
-  // invoices.list
   {
     path: paths.invoices,
     label: 'Invoices',
     customerLabel: 'Your invoices',
-    roles: ['owner', 'bookkeeper', 'customer'],
+    roles: rolesFor('invoices', 'list'),
   },
-  // trips.list
-  { path: paths.mileage, label: 'Mileage', roles: ['owner', 'helper', 'bookkeeper'] },
-  // reminders.list, less the bookkeeper
-  { path: paths.reminders, label: 'Reminders', roles: ['owner', 'helper'] },
-  // users.list and the business's rates: the owner's alone
-  { path: paths.settings, label: 'Settings', roles: ['owner'] },
+  { path: paths.mileage, label: 'Mileage', roles: rolesFor('trips', 'list') },
+  { path: paths.reminders, label: 'Reminders', roles: rolesFor('reminders', 'list', ['bookkeeper']) },
+  // The business's rates and its users: the owner's alone.
+  { path: paths.settings, label: 'Settings', roles: rolesFor('users', 'list') },
 ];
 
 export function sectionsFor(role: Role): Section[] {
