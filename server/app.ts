@@ -12,10 +12,12 @@ import { randomBytes } from 'node:crypto';
 import { authenticate } from './auth/middleware';
 import { HttpError, NotFoundError } from './errors';
 import { mailNotSetUp, type Mailer } from './mail/mailer';
+import { paymentsNotSetUp, type PaymentProvider } from './payments/provider';
 import { authRouter } from './routes/auth';
 import type { RouteDeps } from './routes/deps';
 import { apiRouters } from './routes/index';
 import { healthRouter } from './routes/health';
+import { paymentWebhookRouter } from './routes/payment-webhook';
 import { createSignInLimits } from './services/auth';
 
 export interface AppDeps {
@@ -32,6 +34,8 @@ export interface AppDeps {
   uploadsDir: string;
   /** Where mail goes (server/mail/mailer.ts); omitted means the mail routes answer 503. */
   mailer?: Mailer;
+  /** Card payments (server/payments/); omitted means the payment-link and webhook routes answer 503. */
+  payments?: PaymentProvider;
 }
 
 /** JSON bodies larger than this are refused with 413 before any route sees them. */
@@ -45,6 +49,7 @@ export function createApp({
   clock = () => new Date(),
   uploadsDir,
   mailer = mailNotSetUp,
+  payments = paymentsNotSetUp,
 }: AppDeps) {
   const app = express();
   app.disable('x-powered-by');
@@ -58,12 +63,14 @@ export function createApp({
     );
   }
 
+  // Signed by the payment service over its raw bytes: read before the JSON parser, no session.
+  app.use(paymentWebhookRouter({ db, now: clock, payments }));
   app.use('/api', express.json({ limit: JSON_BODY_LIMIT, strict: true }));
   app.use(healthRouter(db));
   const auth = { db, secret, now: clock };
   app.use('/api', authenticate(auth));
   app.use(authRouter({ ...auth, limits: createSignInLimits() }));
-  const deps: RouteDeps = { db, now: clock, uploadsDir, mailer };
+  const deps: RouteDeps = { db, now: clock, uploadsDir, mailer, payments };
   for (const router of apiRouters(deps)) app.use(router);
   app.use('/api', (_req, _res, next) => next(new NotFoundError('No such API route')));
 

@@ -43,6 +43,9 @@ export async function ensureClientBuilt(log: (line: string) => void = () => {}):
   const vite = path.join(PROJECT_ROOT, 'node_modules', 'vite', 'bin', 'vite.js');
   await promisify(execFile)(process.execPath, [vite, 'build', '--logLevel', 'warn'], {
     cwd: PROJECT_ROOT,
+    // The test runner sets NODE_ENV=test, which would make Vite bundle React's development build
+    // (bigger and slower); the dashboard served is always the production one.
+    env: { ...process.env, NODE_ENV: 'production' },
     maxBuffer: 16 * 1024 * 1024,
   });
   return true;

@@ -6,6 +6,7 @@ import type { Server } from 'node:http';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { pathToFileURL } from 'node:url';
+import { PAYMENT_WEBHOOK_PATH } from '../shared/api/payments';
 import { createApp } from './app';
 import { loadSessionSecret } from './auth/secret';
 import { CLIENT_DIR, ensureClientBuilt } from './build-client';
@@ -17,6 +18,9 @@ import { seedDemo } from './db/seed';
 import { DEMO_PASSWORD, demoUsers } from './db/seed-data';
 import { startFakeSmtp, type FakeSmtp } from './mail/fake-smtp';
 import { createMailer, type Mailer } from './mail/mailer';
+import { startFakePaymentServer, type FakePaymentServer } from './payments/fake-payment-server';
+import type { PaymentProvider } from './payments/provider';
+import { createStripeProvider } from './payments/stripe-provider';
 import { startMailRetries } from './services/mail';
 
 export interface RunningServer {
@@ -26,6 +30,9 @@ export interface RunningServer {
   /** Where mail goes: SMTP_URL's server, or the local fake (`fake` set) when SMTP_URL is unset. */
   mailer: Mailer;
   fake: FakeSmtp | null;
+  /** Card payments: STRIPE_SECRET_KEY's account, or the local fake (`paymentsFake`) when it is unset. */
+  payments: PaymentProvider;
+  paymentsFake: FakePaymentServer | null;
   stop(): Promise<void>;
 }
 
@@ -56,9 +63,22 @@ export async function startServer({
   // Without SMTP_URL, mail goes to a local fake so nothing reaches a real inbox by accident.
   const smtpUrl = process.env.SMTP_URL?.trim();
   let fake: FakeSmtp | null = null;
+  // Without STRIPE_SECRET_KEY, card links go to a local fake: no real card is ever charged.
+  const stripeKey = process.env.STRIPE_SECRET_KEY?.trim();
+  let paymentsFake: FakePaymentServer | null = null;
+  let payments: PaymentProvider;
+  // The customer's way back after paying; set once the server listens unless VANBAY_PUBLIC_URL says.
+  let publicUrl = process.env.VANBAY_PUBLIC_URL?.trim().replace(/\/+$/, '') ?? '';
   try {
     fake = smtpUrl ? null : await startFakeSmtp();
+    paymentsFake = stripeKey ? null : await startFakePaymentServer();
+    payments = createStripeProvider({
+      ...stripeSettings(stripeKey, paymentsFake),
+      successUrl: (invoiceId) => `${publicUrl}/invoices/${invoiceId}`,
+    });
   } catch (error) {
+    await fake?.close();
+    await paymentsFake?.close();
     await database.close();
     unlock();
     throw error;
@@ -69,9 +89,15 @@ export async function startServer({
       ? `Mail: local test SMTP on 127.0.0.1:${fake.port} (nothing leaves this machine; set SMTP_URL to send).`
       : `Mail: SMTP via ${mailer.target}`,
   );
+  log(
+    paymentsFake
+      ? `Card payments: local test service on ${paymentsFake.url} (no real money; set STRIPE_SECRET_KEY to take cards).`
+      : `Card payments: ${payments.target}`,
+  );
   let server: Server;
   const app = createApp({
     mailer,
+    payments,
     db: database.db,
     secret: loadSessionSecret(config.dataDir),
     uploadsDir: path.join(config.dataDir, 'uploads'),
@@ -83,12 +109,18 @@ export async function startServer({
   } catch (error) {
     mailer.close();
     await fake?.close();
+    await paymentsFake?.close();
     await database.close();
     unlock();
     throw error;
   }
   const { port } = server.address() as AddressInfo;
   const url = `http://localhost:${port}`;
+  publicUrl ||= url;
+  // The fake calls back over loopback; a wildcard listen address is reached at 127.0.0.1.
+  const wildcard = ['0.0.0.0', '::', ''].includes(config.host);
+  const callbackHost = wildcard ? '127.0.0.1' : config.host.includes(':') ? `[${config.host}]` : config.host;
+  if (paymentsFake) paymentsFake.webhookUrl = `http://${callbackHost}:${port}${PAYMENT_WEBHOOK_PATH}`;
   // Failed mail is tried again on its backoff for as long as the server runs: never lost.
   const stopRetries = startMailRetries(database.db, mailer, () => new Date());
 
@@ -104,10 +136,24 @@ export async function startServer({
       stopRetries();
       mailer.close();
       await fake?.close();
+      await paymentsFake?.close();
       await database.close();
       unlock();
     })());
-  return { url, server, database, mailer, fake, stop };
+  return { url, server, database, mailer, fake, payments, paymentsFake, stop };
+}
+
+/** STRIPE_SECRET_KEY's account (its webhook secret is then required), or the local fake. */
+function stripeSettings(secretKey: string | undefined, fake: FakePaymentServer | null) {
+  if (fake) return { secretKey: fake.apiKey, webhookSecret: fake.webhookSecret, apiBase: fake.url };
+  const webhookSecret = process.env.STRIPE_WEBHOOK_SECRET?.trim();
+  if (!webhookSecret) {
+    throw new Error(
+      'STRIPE_WEBHOOK_SECRET must be set with STRIPE_SECRET_KEY: without it no payment can be confirmed.',
+    );
+  }
+  const apiBase = process.env.STRIPE_API_BASE?.trim();
+  return { secretKey: secretKey!, webhookSecret, ...(apiBase ? { apiBase } : {}) };
 }
 
 function listen(app: ReturnType<typeof createApp>, config: ServerConfig): Promise<Server> {

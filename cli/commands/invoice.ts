@@ -1,7 +1,8 @@
 import { Command } from 'commander';
 import { z } from 'zod';
 import { InvoiceListSchema, InvoiceSchema, INVOICES_PATH, type Invoice } from '../../shared/api/invoices';
-import { OutboxItemSchema, type OutboxItem } from '../../shared/api/outbox';
+import type { OutboxItem } from '../../shared/api/outbox';
+import { InvoiceSentSchema, type InvoiceSent } from '../../shared/api/payments';
 import { createApi } from '../lib/api';
 import { UsageError, type CliDeps } from '../lib/deps';
 import { theme } from '../ui/theme';
@@ -66,20 +67,23 @@ export function invoiceCommand(deps: CliDeps) {
       const mail = await createApi(deps, options.server).request(
         'POST',
         `${INVOICES_PATH}/${invoiceText}/send`,
-        OutboxItemSchema,
+        InvoiceSentSchema,
         { query: { again: raw.again ? 'true' : undefined } },
       );
       // The server keeps a failed mail and retries it: accepted, so not an error, but said plainly.
       if (mail.status !== 'sent') deps.stderr.write(`${notSentYet(mail)}\n`);
-      deps.stdout.write(options.json ? `${JSON.stringify(mail)}\n` : `${sentLine(mail)}\n`);
+      if (mail.paymentLinkError)
+        deps.stderr.write(`no card link on this invoice: ${mail.paymentLinkError}\n`);
+      deps.stdout.write(options.json ? `${JSON.stringify(mail)}\n` : `${sentLines(mail)}\n`);
     });
   return invoice;
 }
 
-function sentLine(mail: OutboxItem) {
+function sentLines(mail: InvoiceSent) {
   const files = mail.attachments.map((a) => a.filename).join(', ');
   const state = mail.status === 'sent' ? theme.pass('sent') : theme.warn(mail.status);
-  return `${state}  ${mail.subject}  to ${mail.to}${files ? `  (${files})` : ''}`;
+  const line = `${state}  ${mail.subject}  to ${mail.to}${files ? `  (${files})` : ''}`;
+  return mail.paymentLinkUrl ? `${line}\npay by card: ${mail.paymentLinkUrl}` : line;
 }
 
 function notSentYet(mail: OutboxItem) {

@@ -1,5 +1,6 @@
 import type { Db } from '../db/client';
 import type { Mailer } from '../mail/mailer';
+import type { PaymentProvider } from '../payments/provider';
 
 /** What every resource router is built from. */
 export interface RouteDeps {
@@ -10,4 +11,6 @@ export interface RouteDeps {
   uploadsDir: string;
   /** Sends the outbox's mail; a stand-in that answers 503 when the app was given none. */
   mailer: Mailer;
+  /** Card payments (server/payments/); a stand-in that answers 503 when the app was given none. */
+  payments: PaymentProvider;
 }

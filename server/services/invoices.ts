@@ -97,6 +97,7 @@ export function toInvoice(row: InvoiceRow): Invoice {
     taxRatePpm: row.taxRatePpm,
     taxRounding: row.taxRounding,
     terms: row.terms,
+    paymentLinkUrl: row.paymentLinkUrl,
     overdue: row.overdue === true,
     daysOverdue: row.daysOverdue,
     sentAt: iso(row.sentAt),

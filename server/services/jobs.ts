@@ -1,5 +1,5 @@
 import { TZDate } from '@date-fns/tz';
-import { and, asc, desc, eq, gte, inArray, isNotNull, isNull, lt, or, type SQL } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, ilike, inArray, isNotNull, isNull, lt, or, type SQL } from 'drizzle-orm';
 import type { ListResponse } from '../../shared/api/common';
 import {
   canTransition,
@@ -13,6 +13,7 @@ import {
   type JobListQuery,
   type JobStatus,
   type JobStatusChangeInput,
+  type JobSummary,
   type UpdateJobInput,
 } from '../../shared/api/jobs';
 import { machineDisplayName } from '../../shared/api/machines';
@@ -85,12 +86,19 @@ async function scheduledRange(db: Db, actor: Actor, query: JobListQuery): Promis
   return range;
 }
 
-export async function listJobs(db: Db, actor: Actor, query: JobListQuery): Promise<ListResponse<Job>> {
+export async function listJobs(db: Db, actor: Actor, query: JobListQuery): Promise<ListResponse<JobSummary>> {
   const after = decodeCursor(query.cursor);
   const range = await scheduledRange(db, actor, query);
+  const pattern = query.q ? `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : null;
   const rows = await db
-    .select()
+    .select({
+      job: t.jobs,
+      customerName: t.customers.name,
+      machine: { year: t.machines.year, make: t.machines.make, model: t.machines.model },
+    })
     .from(t.jobs)
+    .innerJoin(t.customers, eq(t.customers.id, t.jobs.customerId))
+    .innerJoin(t.machines, eq(t.machines.id, t.jobs.machineId))
     .where(
       scoped(
         actor,
@@ -100,11 +108,25 @@ export async function listJobs(db: Db, actor: Actor, query: JobListQuery): Promi
         query.machineId ? eq(t.jobs.machineId, query.machineId) : undefined,
         ...range,
         after ? lt(t.jobs.id, after) : undefined,
+        pattern
+          ? or(
+              ilike(t.jobs.complaint, pattern),
+              ilike(t.customers.name, pattern),
+              ilike(t.machines.make, pattern),
+              ilike(t.machines.model, pattern),
+              ilike(t.machines.vin, pattern),
+            )
+          : undefined,
       ),
     )
     .orderBy(desc(t.jobs.id))
     .limit(query.limit + 1);
-  return toPage(rows, query.limit, toJob);
+  const keyed = rows.map((row) => ({ id: row.job.id, ...row }));
+  return toPage(keyed, query.limit, ({ job, customerName, machine }) => ({
+    ...toJob(job),
+    customerName,
+    machineName: machineDisplayName(machine),
+  }));
 }
 
 async function jobEvents(db: Db, actor: Actor, jobId: number): Promise<JobEvent[]> {

@@ -274,7 +274,7 @@ export function startMailRetries(
 
 // ---- Invoice and reminder mail -------------------------------------------------------------
 
-function requireMailer(mailer: Mailer) {
+export function requireMailer(mailer: Mailer) {
   if (!mailer.available) throw new HttpError(503, 'mail_not_set_up', 'mail is not set up');
 }
 
@@ -291,7 +291,7 @@ export async function sendInvoiceMail(
   mailer: Mailer,
   actor: Actor,
   invoiceId: number,
-  options: { again: boolean },
+  options: { again: boolean; beforeRender?: () => Promise<void> },
   now: Date,
 ): Promise<OutboxItem> {
   requireMailer(mailer);
@@ -327,6 +327,15 @@ export async function sendInvoiceMail(
   if (waiting) return toOutboxItem(await deliverMail(db, mailer, waiting, now, { actor }));
 
   const business = await loadBusiness(db, actor.businessId);
+  // A new mail only: the caller's last word on the invoice (its card link) before PDF and body.
+  if (options.beforeRender) {
+    await options.beforeRender();
+    const [linked] = await db
+      .select({ paymentLinkUrl: t.invoices.paymentLinkUrl })
+      .from(t.invoices)
+      .where(and(eq(t.invoices.businessId, actor.businessId), eq(t.invoices.id, invoice.id)));
+    invoice.paymentLinkUrl = linked?.paymentLinkUrl ?? null;
+  }
   const pdf = await invoicePdf(db, actor, invoice.id, { now });
   const rendered = [{ filename: pdf.filename, contentType: 'application/pdf', content: pdf.bytes }];
   const { row, inserted } = await enqueueMail(
@@ -477,7 +486,7 @@ export async function sendReminderMail(
  * waiting → 409 unless `again`; with `again`, a failed mail still waiting is the one to try now
  * (returned) rather than a second copy, and an attempt under way is left alone (409).
  */
-function resendGate(earlier: Row[], markedSent: boolean, again: boolean, what: string): Row | null {
+export function resendGate(earlier: Row[], markedSent: boolean, again: boolean, what: string): Row | null {
   if (earlier.length === 0 && !markedSent) return null;
   if (!again) {
     throw new ConflictError(`${what} was already sent; send with ?again=true to send it once more.`, {

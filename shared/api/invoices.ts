@@ -83,6 +83,8 @@ export const InvoiceSchema = z.object({
       'A balance above 0 past its due date (dueOn before today, business calendar); never for a void invoice',
     ),
   daysOverdue: z.number().int().describe('Days since the due date while overdue; 0 otherwise'),
+  /** The card payment link the PDF and the e-mail carry (shared/api/payments.ts); null when none was made. */
+  paymentLinkUrl: z.string().nullable(),
   sentAt: z.string().nullable(),
   voidedAt: z.string().nullable(),
   createdAt: z.string(),

@@ -197,6 +197,8 @@ export const JobListQuerySchema = ListQuerySchema.extend({
   status: StatusFilterSchema.optional(),
   customerId: IdSchema.optional(),
   machineId: IdSchema.optional(),
+  /** Words in the complaint, the customer's name, or the machine's make, model or VIN. */
+  q: z.string().trim().max(120).optional(),
   /** Calendar days on `scheduledAt`, in the business's own time zone, both ends included. */
   from: IsoDateSchema.optional(),
   to: IsoDateSchema.optional(),
@@ -206,4 +208,12 @@ export const JobListQuerySchema = ListQuerySchema.extend({
 });
 export type JobListQuery = z.infer<typeof JobListQuerySchema>;
 
-export const JobListSchema = listResponseSchema(JobSchema);
+/** A job as lists show it: with the names a person reads instead of ids. */
+export const JobSummarySchema = JobSchema.extend({
+  customerName: z.string(),
+  /** As `machineDisplayName` in shared/api/machines.ts writes it. */
+  machineName: z.string(),
+});
+export type JobSummary = z.infer<typeof JobSummarySchema>;
+
+export const JobListSchema = listResponseSchema(JobSummarySchema);

@@ -540,6 +540,38 @@ describe('jobs: lists', () => {
       .expect(400);
     await request(api.app).get('/api/jobs').query({ from: '2026-13-01' }).set(as(api, 'owner')).expect(400);
   });
+
+  it('names the customer and machine on each row and searches complaint, customer and machine', async () => {
+    const machine = await newMachine(testCustomerId);
+    const job = await book({ complaint: 'Bogs at 40% throttle after a creek crossing' }, machine.id);
+    const page = JobListSchema.parse(
+      (await request(api.app).get('/api/jobs').query({ q: 'creek' }).set(as(api, 'owner')).expect(200)).body,
+    );
+    expect(page.items.map((j) => j.id)).toEqual([job.id]);
+    expect(page.items[0]).toMatchObject({
+      customerName: 'Juniper Ashcombe',
+      machineName: 'Norrland Fjell 450',
+    });
+
+    // Against the rows themselves: every job of the customer, and of machines of that make.
+    const all = await api.database.db
+      .select({ id: t.jobs.id, customer: t.customers.name, make: t.machines.make })
+      .from(t.jobs)
+      .innerJoin(t.customers, eq(t.customers.id, t.jobs.customerId))
+      .innerJoin(t.machines, eq(t.machines.id, t.jobs.machineId));
+    const newestFirst = (ids: number[]) => ids.sort((a, b) => b - a);
+    expect(await listIds({ q: 'juniper ASHCOMBE' })).toEqual(
+      newestFirst(all.filter((j) => j.customer === 'Juniper Ashcombe').map((j) => j.id)),
+    );
+    expect(await listIds({ q: 'norrland' })).toEqual(
+      newestFirst(all.filter((j) => j.make === 'Norrland').map((j) => j.id)),
+    );
+    // LIKE's own wildcards are plain characters here: "40%" matches only the text "40%".
+    expect(await listIds({ q: '40%' })).toEqual([job.id]);
+    expect(await listIds({ q: '_' })).toEqual([]);
+    // A customer's search stays within their own jobs.
+    expect(await listIds({ q: 'creek' }, 'customer')).toEqual([]);
+  });
 });
 
 describe('jobs: who sees what', () => {

@@ -180,6 +180,22 @@ export const moneyRows: AccessRow[] = [
     expect: statuses(201, 403, 403, 403),
   },
   {
+    // The matrix app has no payment service: the owner gets 503 (tests/server/card-payments.test.ts runs one).
+    name: 'POST /api/invoices/:id/payment-link',
+    method: 'post',
+    path: async (f) => `/api/invoices/${(await freshInvoice(f.api)).id}/payment-link`,
+    body: () => ({}),
+    expect: statuses(503, 403, 403, 403),
+  },
+  {
+    // No sign-in either way: the payment service's signature is the check, and here none is set up.
+    name: 'POST /api/payments/webhook',
+    method: 'post',
+    path: () => '/api/payments/webhook',
+    body: () => ({ id: 'evt_matrix', object: 'event', type: 'checkout.session.completed' }),
+    expect: { anonymous: 503, owner: 503, helper: 503, bookkeeper: 503, customer: 503 },
+  },
+  {
     name: 'GET /api/trips',
     method: 'get',
     path: () => '/api/trips',
