@@ -33,6 +33,7 @@ import { ESTIMATE_STATUSES, JOB_STATUSES, LINE_ITEM_KINDS } from '../../shared/a
 import { CHECK_RUN_STATUSES, QUANTITIES, VERDICTS } from '../../shared/api/readings';
 import { INVOICE_STATUSES, PAYMENT_METHODS, TAX_ROUNDING } from '../../shared/api/invoices';
 import { MAIL_STATUSES, REMINDER_STATUSES, SERVICE_ITEMS } from '../../shared/api/reminders';
+import { ESTIMATE_DECIDED_VIA } from '../../shared/api/estimates';
 
 export const roleEnum = pgEnum('role', ROLES);
 export const machineKindEnum = pgEnum('machine_kind', MACHINE_KINDS);
@@ -41,6 +42,7 @@ export const specSourceEnum = pgEnum('spec_source', SPEC_SOURCES);
 export const jobStatusEnum = pgEnum('job_status', JOB_STATUSES);
 export const lineItemKindEnum = pgEnum('line_item_kind', LINE_ITEM_KINDS);
 export const estimateStatusEnum = pgEnum('estimate_status', ESTIMATE_STATUSES);
+export const estimateDecidedViaEnum = pgEnum('estimate_decided_via', ESTIMATE_DECIDED_VIA);
 export const quantityEnum = pgEnum('quantity', QUANTITIES);
 export const verdictEnum = pgEnum('verdict', VERDICTS);
 export const checkRunStatusEnum = pgEnum('check_run_status', CHECK_RUN_STATUSES);
@@ -369,6 +371,10 @@ export const lineItems = pgTable(
   (t) => [index('line_items_job_idx').on(t.jobId, t.position)],
 );
 
+/**
+ * A job's lines as quoted to the customer, and the customer's answer: when, by whom, and whether
+ * the customer gave it signed in or the owner recorded it on their word.
+ */
 export const estimates = pgTable(
   'estimates',
   {
@@ -378,15 +384,33 @@ export const estimates = pgTable(
       .notNull()
       .references(() => jobs.id, { onDelete: 'cascade' }),
     status: estimateStatusEnum().notNull().default('draft'),
+    /** Totals by shared/money.ts at the rate and rounding below; null on estimates from before. */
+    subtotalCents: integer(),
+    taxCents: integer(),
     totalCents: integer().notNull(),
+    taxRatePpm: integer(),
+    taxRounding: taxRoundingEnum(),
     /** The lines as quoted, so a later edit of the job does not rewrite what was approved. */
     lines: jsonb().notNull(),
+    /** The owner's message to the customer, printed on the estimate. */
+    note: text(),
     sentAt: tstz(),
     decidedAt: tstz(),
     decidedBy: integer().references(() => users.id, { onDelete: 'set null' }),
+    decidedVia: estimateDecidedViaEnum(),
+    /** How the customer gave their word, when the owner recorded it. */
+    decisionNote: text(),
+    createdBy: integer().references(() => users.id, { onDelete: 'set null' }),
     createdAt: createdAt(),
   },
-  (t) => [index('estimates_job_idx').on(t.jobId)],
+  (t) => [
+    index('estimates_job_idx').on(t.jobId),
+    // Approved or declined exactly when a decision time is recorded.
+    check(
+      'estimates_decision_check',
+      sql`(${t.status} in ('approved', 'declined')) = (${t.decidedAt} is not null)`,
+    ),
+  ],
 );
 
 /** Hands out invoice numbers with no gaps: taken under a row lock in the invoice's transaction. */
@@ -621,6 +645,8 @@ export const outbox = pgTable(
     idempotencyKey: text().notNull(),
     invoiceId: integer().references(() => invoices.id, { onDelete: 'set null' }),
     jobId: integer().references(() => jobs.id, { onDelete: 'set null' }),
+    /** The estimate a mail of kind `estimate` carries, so a retry renders it again. */
+    estimateId: integer().references(() => estimates.id, { onDelete: 'set null' }),
     sentAt: tstz(),
     createdAt: createdAt(),
   },

@@ -16,6 +16,7 @@ import { BadRequestError, ConflictError, HttpError } from '../errors';
 import type { Mailer, OutgoingAttachment } from '../mail/mailer';
 import { recordAudit } from './audit';
 import { invoicePdf } from './invoice-documents';
+import { jobDocumentAttachments } from './document-attachments';
 import { loadBusiness } from './invoices';
 import { toOutboxItem } from './outbox';
 import { found, scoped } from './scope';
@@ -512,6 +513,9 @@ async function renderAttachments(db: Db, actor: Actor, row: Row, now: Date): Pro
     const pdf = await invoicePdf(db, actor, row.invoiceId, { now });
     return [{ filename: pdf.filename, contentType: 'application/pdf', content: pdf.bytes }];
   }
+  // A report or estimate mail re-renders its own PDF, so a retry carries it as the first try did.
+  const documents = await jobDocumentAttachments(db, actor, row, now);
+  if (documents) return documents;
   return [];
 }
 

@@ -73,4 +73,21 @@ describe('migrations on an empty database', () => {
     );
     expect(String(error?.cause?.message ?? error?.message)).toMatch(/invoices_balance_check/);
   });
+
+  it('refuse an estimate marked approved with no decision time, or one decided while still sent', async () => {
+    const attempt = (status: string, decidedAt: string | null) =>
+      database.db
+        .execute(
+          sql`insert into estimates (business_id, job_id, status, total_cents, lines, decided_at)
+              values (1, 1, ${status}::estimate_status, 100, '[]'::jsonb, ${decidedAt}::timestamptz)`,
+        )
+        .then(
+          () => null,
+          (e: Error & { cause?: Error }) => String(e.cause?.message ?? e.message),
+        );
+    // The empty database has no business 1 or job 1: the check is met first because PostgreSQL
+    // tests CHECK constraints on the row before its foreign-key triggers run (from memory).
+    expect(await attempt('approved', null)).toMatch(/estimates_decision_check/);
+    expect(await attempt('sent', '2026-11-18T15:00:00Z')).toMatch(/estimates_decision_check/);
+  });
 });
