@@ -1,4 +1,5 @@
 #!/usr/bin/env node
+import { terminalPrompter } from './lib/terminal-prompter';
 import { runCli } from './program';
 
 const code = await runCli(process.argv.slice(2), {
@@ -7,11 +8,6 @@ const code = await runCli(process.argv.slice(2), {
   stdout: process.stdout,
   stderr: process.stderr,
   interactive: Boolean(process.stdin.isTTY && process.stdout.isTTY),
-  // Loaded only when a command asks something, so `vanbay --help` stays fast.
-  prompt: {
-    input: async (options) => (await import('@inquirer/prompts')).input(options),
-    password: async (options) => (await import('@inquirer/prompts')).password({ ...options, mask: '*' }),
-    search: async (options) => (await import('@inquirer/prompts')).search(options),
-  },
+  prompt: terminalPrompter,
 });
 process.exitCode = code;
