@@ -4,6 +4,7 @@
  */
 import type { Router } from 'express';
 import { backupRouters } from './group-backup';
+import { businessRouter } from './business';
 import { customersRouter } from './customers';
 import { careRouters } from './group-care';
 import type { RouteDeps } from './deps';
@@ -25,5 +26,6 @@ export function apiRouters(deps: RouteDeps): Router[] {
     ...backupRouters(deps),
     ...mailRouters(deps),
     ...documentRouters(deps),
+    businessRouter(deps),
   ];
 }

@@ -35,6 +35,9 @@ export const POLICY = {
   outbox: { list: OWNER },
   users: { list: OWNER, create: OWNER, update: OWNER },
   backup: { read: OWNER, create: OWNER },
+  // The staff read the rates and tax that line items and invoices are priced with (the helper's
+  // job page totals its lines with them); only the owner changes them, and the settings page is theirs.
+  business: { read: STAFF, update: OWNER },
 } as const satisfies Record<string, Partial<Record<Action, readonly Role[]>>>;
 
 export type Resource = keyof typeof POLICY;

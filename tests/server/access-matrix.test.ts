@@ -7,6 +7,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { as, seededApi, type TestApi } from '../helpers/api';
 import { backupRows } from './access/backup';
+import { businessRows } from './access/business';
 import { careRows } from './access/care';
 import { coreRows } from './access/core';
 import { documentRows } from './access/documents';
@@ -26,6 +27,7 @@ const ROWS = [
   ...documentRows,
   ...mailRows,
   ...backupRows,
+  ...businessRows,
 ];
 
 let api: TestApi;

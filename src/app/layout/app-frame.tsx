@@ -10,6 +10,7 @@ import { signInPathReturningTo } from '../sign-in-return';
 import { NotForYourRole } from './not-for-your-role';
 import { sectionAt } from './sections';
 import { SessionChecking, SessionUnknown } from './session-states';
+import { KeyboardShortcuts } from './shortcuts';
 import { SkipLink } from './skip-link';
 import { SiteNav } from './site-nav';
 
@@ -63,7 +64,10 @@ function SignedInFrame({ user, ...signOut }: SignedInFrameProps) {
           </Link>
           <ServerStatusBadge />
         </div>
-        <SessionMenu user={user} {...signOut} />
+        <div className="flex flex-wrap items-center gap-3">
+          <KeyboardShortcuts role={user.role} />
+          <SessionMenu user={user} {...signOut} />
+        </div>
       </header>
       <div className="flex flex-1 flex-col lg:flex-row">
         <SiteNav role={user.role} />

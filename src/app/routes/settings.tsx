@@ -1,10 +1,20 @@
-import { NotBuiltYet } from '../layout/not-built-yet';
-import { paths } from '../paths';
+import { PageHeading } from '../../components/ui/page-heading';
+import { useSessionUser } from '../../features/session/api/queries';
+import { BusinessSettingsPanel } from '../../features/settings/components/business-settings';
+import { UsersPanel } from '../../features/settings/components/users-panel';
 
+/** The owner's page (the frame turns any other role away): the business, its rates and who signs in. */
 export function Component() {
+  const { id } = useSessionUser();
   return (
-    <NotBuiltYet path={paths.settings}>
-      Business details, rates and who may sign in will be set here.
-    </NotBuiltYet>
+    <>
+      <PageHeading title="Settings">
+        The business as invoices show it, what new work is priced at, and who may sign in.
+      </PageHeading>
+      <div className="grid max-w-5xl gap-6">
+        <BusinessSettingsPanel />
+        <UsersPanel selfId={id} />
+      </div>
+    </>
   );
 }

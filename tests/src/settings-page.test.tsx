@@ -1,0 +1,121 @@
+// @vitest-environment jsdom
+import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
+import { afterEach, describe, expect, it, vi } from 'vitest';
+import type { BusinessSettings, UpdateBusinessInput } from '../../shared/api/business';
+import type { User } from '../../shared/api/users';
+import { demoUsers, fakeApi, session } from './fake-api';
+import { jsonResponse, renderApp } from './render-app';
+
+afterEach(() => {
+  cleanup();
+  vi.unstubAllGlobals();
+});
+
+/** The demo business's settings (PRODUCT.md's scenario) as GET /api/business answers them. */
+const settings: BusinessSettings = {
+  name: 'Ridgeback Mobile Moto',
+  ownerName: 'Morgan Avery',
+  email: 'owner@ridgeback.test',
+  phone: '555-0148',
+  addressLines: ['41 Quarry Bend Road', 'Cinder Valley'],
+  timezone: 'America/Denver',
+  currency: 'USD',
+  labourRateCents: 9500,
+  partsMarkupBps: 2500,
+  tripFeeBaseCents: 3500,
+  tripFeePerMileCents: 150,
+  tripFeeFreeMiles: 15,
+  shopSuppliesBps: 0,
+  taxRatePpm: 62_500,
+  taxRounding: 'per_invoice',
+  invoiceTermsDays: 14,
+  invoiceFooter: null,
+  updatedAt: '2026-11-18T15:00:00.000Z',
+};
+
+const users: User[] = Object.values(demoUsers).map((user) => ({
+  ...user,
+  disabled: false,
+  lastSignInAt: null,
+  createdAt: '2026-01-05T15:00:00.000Z',
+}));
+
+function settingsServer() {
+  let current = settings;
+  const patches: UpdateBusinessInput[] = [];
+  fakeApi({
+    ...session('owner'),
+    'GET /api/business': () => jsonResponse(200, current),
+    'PATCH /api/business': ({ init }) => {
+      const patch = JSON.parse(String(init?.body)) as UpdateBusinessInput;
+      patches.push(patch);
+      current = { ...current, ...patch } as BusinessSettings;
+      return jsonResponse(200, current);
+    },
+    'GET /api/users': () => jsonResponse(200, { items: users, nextCursor: null }),
+  });
+  return patches;
+}
+
+async function section(name: string) {
+  renderApp('/settings');
+  await screen.findByRole('heading', { level: 1, name: 'Settings' });
+  return within(await screen.findByRole('form', { name }));
+}
+
+describe('the settings page', () => {
+  it('shows the stored rates as typed figures: cents as dollars, basis points and ppm as percents', async () => {
+    settingsServer();
+    const rates = await section('Rates');
+    // By hand: 9 500 ¢ = $95.00; 2 500 bps = 25 %.
+    expect((rates.getByLabelText('Labour rate ($ per hour)') as HTMLInputElement).value).toBe('95.00');
+    expect((rates.getByLabelText('Parts markup (%)') as HTMLInputElement).value).toBe('25');
+    const tax = within(screen.getByRole('form', { name: 'Tax' }));
+    // 62 500 ppm = 6.25 %.
+    expect((tax.getByLabelText('Sales tax rate (%)') as HTMLInputElement).value).toBe('6.25');
+  });
+
+  it('saves only what changed, a tax rate of 8.875 % as 88 750 ppm', async () => {
+    const patches = settingsServer();
+    const tax = await section('Tax');
+    fireEvent.change(tax.getByLabelText('Sales tax rate (%)'), { target: { value: '8.875' } });
+    fireEvent.click(tax.getByRole('button', { name: 'Save tax' }));
+
+    await tax.findByText(/^Saved\.$/);
+    // 8.875 % × 10 000 = 88 750 parts per million (by hand).
+    expect(patches).toEqual([{ taxRatePpm: 88_750 }]);
+  });
+
+  it('refuses a rate with more than two decimals of a cent beside the field, and sends nothing', async () => {
+    const patches = settingsServer();
+    const rates = await section('Rates');
+    const field = rates.getByLabelText('Labour rate ($ per hour)');
+    fireEvent.change(field, { target: { value: '95.125' } });
+    fireEvent.click(rates.getByRole('button', { name: 'Save rates' }));
+
+    await waitFor(() => expect(field.getAttribute('aria-invalid')).toBe('true'));
+    expect(rates.getByText('Dollars and cents, e.g. 95.00.')).toBeTruthy();
+    expect(patches).toEqual([]);
+  });
+
+  it('works the trip fee rule through examples as it is typed', async () => {
+    settingsServer();
+    const fee = await section('Trip fee');
+    // By hand with $35.00 covering 15 miles and $1.50 a mile after: 10 mi $35.00;
+    // 25 mi 35.00 + 10 × 1.50 = $50.00; 40 mi 35.00 + 25 × 1.50 = $72.50.
+    expect(fee.getByText(/10 miles \$35\.00 · 25 miles \$50\.00 · 40 miles \$72\.50/)).toBeTruthy();
+    fireEvent.change(fee.getByLabelText('Each mile past those ($)'), { target: { value: '2' } });
+    // 25 mi: 35.00 + 10 × 2.00 = $55.00; 40 mi: 35.00 + 25 × 2.00 = $85.00.
+    expect(await fee.findByText(/25 miles \$55\.00 · 40 miles \$85\.00/)).toBeTruthy();
+  });
+
+  it('lists who may sign in, with their roles, the owner marked as themselves', async () => {
+    settingsServer();
+    renderApp('/settings');
+    const table = await screen.findByRole('table', { name: 'Sign-ins' });
+    expect(within(table).getByRole('rowheader', { name: /Morgan Avery \(you\)/ })).toBeTruthy();
+    expect((within(table).getByLabelText('Role of Dana Whitlock') as HTMLSelectElement).value).toBe('helper');
+    // A customer's sign-in stays a customer's: no role control for it.
+    expect(within(table).queryByLabelText('Role of Jules Marchetti')).toBeNull();
+  });
+});
