@@ -46,8 +46,9 @@ describe('the dashboard in Chromium', () => {
   it('moves between sections from the navigation and on a deep link', async () => {
     await page.getByRole('navigation').getByRole('link', { name: /jobs/i }).click();
     await page.waitForURL(/\/jobs$/);
+    await page.getByRole('heading', { level: 1, name: 'Jobs' }).waitFor();
     await page
-      .getByText(/not built yet/i)
+      .getByRole('link', { name: /^#\d+$/ })
       .first()
       .waitFor();
     await page.goto(`${url}/mileage`);

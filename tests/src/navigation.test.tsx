@@ -133,6 +133,18 @@ describe('the dashboard frame', () => {
     expect(current().map((link) => link.textContent)).toEqual(['Invoices']);
   });
 
+  it("marks the customers section on a machine's page, which lives under it", async () => {
+    fakeApi(session('owner'));
+    renderApp('/machines/3');
+    const link = await within(await screen.findByRole('navigation', { name: 'Sections' })).findByRole(
+      'link',
+      {
+        name: 'Customers & machines',
+      },
+    );
+    expect(link.getAttribute('aria-current')).toBe('page');
+  });
+
   it.each(sectionsByRole.owner)('opens %s under its own heading', async (label, path) => {
     // Every list the sections ask for answers empty: the frame and the heading are what is proved here.
     fakeApi({ ...session('owner') });

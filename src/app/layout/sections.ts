@@ -9,6 +9,8 @@ export type Section = {
   customerLabel?: string;
   /** Who may open it: the roles shared/api/policy.ts lets use the resource the section is for. */
   roles: readonly Role[];
+  /** Other paths whose pages belong to it (a machine's page is under customers and machines). */
+  alsoAt?: readonly string[];
 };
 
 /**
@@ -38,6 +40,7 @@ export const sections: readonly Section[] = [
     label: 'Customers & machines',
     customerLabel: 'Your machines',
     roles: rolesFor('machines', 'list'),
+    alsoAt: ['/machines'],
   },
   {
     path: paths.invoices,
@@ -61,7 +64,8 @@ export function sectionLabel(section: Section, role: Role): string {
 
 /** The section a path belongs to (its own page or one below it), if any. */
 export function sectionAt(pathname: string): Section | undefined {
-  return sections.find((section) => pathname === section.path || pathname.startsWith(`${section.path}/`));
+  const under = (base: string) => pathname === base || pathname.startsWith(`${base}/`);
+  return sections.find((section) => under(section.path) || (section.alsoAt ?? []).some(under));
 }
 
 /** Where a role lands after sign-in: its first section, so a helper starts on Jobs, not a refusal. */

@@ -1,0 +1,55 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { OutboxItemSchema } from '../../../../shared/api/outbox';
+import { REMINDERS_PATH, ReminderSchema } from '../../../../shared/api/reminders';
+import type { DueItem } from '../../../../shared/api/reminders';
+import { ApiError, request } from '../../../lib/api-client';
+import { reminderQueries } from './queries';
+
+/** `POST /api/reminders/:id/send` (server/routes/invoice-send.ts); `?again=true` once it has gone. */
+const reminderSendPath = (id: number, again: boolean) =>
+  `${REMINDERS_PATH}/${id}/send${again ? '?again=true' : ''}`;
+
+/**
+ * The reminder this round of the interval is sent under: its open one, else a new one. A 409 on
+ * creating means another tab or the CLI wrote one a moment ago; that one is used.
+ */
+async function openReminderId(item: DueItem): Promise<number> {
+  const current = item.reminder;
+  if (current && (current.status === 'pending' || current.status === 'sent')) return current.id;
+  try {
+    const created = await request(REMINDERS_PATH, ReminderSchema, {
+      method: 'POST',
+      headers: { 'Content-Type': 'application/json' },
+      body: JSON.stringify({ serviceIntervalId: item.serviceIntervalId }),
+    });
+    return created.id;
+  } catch (error) {
+    const existing = error instanceof ApiError && error.status === 409 ? reminderIdIn(error.details) : null;
+    if (existing === null) throw error;
+    return existing;
+  }
+}
+
+function reminderIdIn(details: unknown): number | null {
+  const id = (details as { reminderId?: unknown } | undefined)?.reminderId;
+  return typeof id === 'number' ? id : null;
+}
+
+export async function sendReminder(item: DueItem) {
+  const id = await openReminderId(item);
+  return request(reminderSendPath(id, item.reminder?.status === 'sent'), OutboxItemSchema, {
+    method: 'POST',
+  });
+}
+
+/**
+ * Mails the customer; the due list then shows the reminder as sent (or waiting for a retry). It
+ * is re-read after a failure too: the reminder may have been written before the mail was refused.
+ */
+export function useSendReminder() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: sendReminder,
+    onSettled: () => queryClient.invalidateQueries({ queryKey: reminderQueries.lists() }),
+  });
+}
