@@ -63,8 +63,24 @@ function line(fields: Partial<LineItem> & Pick<LineItem, 'id' | 'kind' | 'descri
 }
 
 const lines: LineItem[] = [
-  line({ id: 1, kind: 'labour', description: 'Fuel system diagnosis', quantity: 1.5, quantityMilli: 1500, unitPriceCents: 9500, lineTotalCents: 14250 }),
-  line({ id: 2, kind: 'part', description: 'In-tank strainer', unitPriceCents: 3800, markupBps: 2500, taxable: true, lineTotalCents: 4750 }),
+  line({
+    id: 1,
+    kind: 'labour',
+    description: 'Fuel system diagnosis',
+    quantity: 1.5,
+    quantityMilli: 1500,
+    unitPriceCents: 9500,
+    lineTotalCents: 14250,
+  }),
+  line({
+    id: 2,
+    kind: 'part',
+    description: 'In-tank strainer',
+    unitPriceCents: 3800,
+    markupBps: 2500,
+    taxable: true,
+    lineTotalCents: 4750,
+  }),
 ];
 
 const business = {
@@ -90,6 +106,27 @@ const business = {
 
 const empty = { items: [], nextCursor: null };
 
+const estimate = {
+  id: 31,
+  jobId: 7,
+  customerId: 1,
+  status: 'sent',
+  lines: [],
+  subtotalCents: 19000,
+  taxCents: 297,
+  totalCents: 19297,
+  taxRatePpm: 62_500,
+  taxRounding: 'per_line',
+  note: null,
+  sentAt: '2026-11-17T17:00:00.000Z',
+  decidedAt: null,
+  decidedById: null,
+  decidedByName: null,
+  decidedVia: null,
+  decisionNote: null,
+  createdAt: '2026-11-17T17:00:00.000Z',
+} as const;
+
 function jobApi(role: Role, extra: Record<string, FakeRoute> = {}) {
   return fakeApi({
     ...session(role),
@@ -98,6 +135,8 @@ function jobApi(role: Role, extra: Record<string, FakeRoute> = {}) {
     'GET /api/jobs/7/line-items': () => jsonResponse(200, { items: lines, nextCursor: null }),
     'GET /api/jobs/7/attachments': () => jsonResponse(200, empty),
     'GET /api/business': () => jsonResponse(200, business),
+    'GET /api/jobs/7/checks': () => jsonResponse(200, empty),
+    'GET /api/jobs/7/estimates': () => jsonResponse(200, { items: [estimate], nextCursor: null }),
     ...extra,
   });
 }
@@ -122,7 +161,9 @@ describe('the job page', () => {
     expect(main().getByRole('button', { name: 'Save' })).toBeTruthy();
 
     // A quantity the server would refuse is said at once, and the totals keep the last good one.
-    fireEvent.change(main().getByLabelText('Quantity of Fuel system diagnosis'), { target: { value: '1.2345' } });
+    fireEvent.change(main().getByLabelText('Quantity of Fuel system diagnosis'), {
+      target: { value: '1.2345' },
+    });
     expect(main().getByText(/at most 3 decimals/)).toBeTruthy();
     expect(screen.getByTestId('total').textContent).toBe('$192.97');
   });
@@ -201,5 +242,30 @@ describe('the job page', () => {
     expect(main().queryByRole('button', { name: /^To / })).toBeNull();
     expect(main().queryByLabelText(/^Reading/)).toBeNull();
     expect(main().queryByLabelText('Add a note')).toBeNull();
+  });
+
+  it('lets the customer approve a sent estimate, and asks the owner how the customer answered', async () => {
+    let approved: unknown = null;
+    jobApi('customer', {
+      'POST /api/estimates/31/approve': ({ init }) => {
+        approved = JSON.parse(String(init?.body));
+        return jsonResponse(200, { ...estimate, status: 'approved', decidedAt: '2026-11-17T18:00:00.000Z' });
+      },
+    });
+    renderApp('/jobs/7');
+    fireEvent.click(await screen.findByRole('button', { name: 'Approve the work' }));
+    await waitFor(() => expect(approved).toEqual({}));
+    expect(await screen.findByText('Answer recorded.')).toBeTruthy();
+    cleanup();
+
+    jobApi('owner');
+    renderApp('/jobs/7');
+    const record = await screen.findByRole('button', { name: 'Record an approval' });
+    // The owner passes on the customer's word: not without saying how it was given.
+    expect((record as HTMLButtonElement).disabled).toBe(true);
+    fireEvent.change(main().getByLabelText(/How the customer answered/), {
+      target: { value: 'Yes by phone' },
+    });
+    expect((record as HTMLButtonElement).disabled).toBe(false);
   });
 });

@@ -3,8 +3,10 @@ import { Link, useParams } from 'react-router';
 import { AlertPanel } from '../../components/ui/alert-panel';
 import { PageHeading } from '../../components/ui/page-heading';
 import { isAllowed } from '../../../shared/api/policy';
+import { CheckRunsPanel } from '../../features/checks/components/check-runs-panel';
 import { jobQueries } from '../../features/jobs/api/queries';
 import { AttachmentsPanel } from '../../features/jobs/components/attachments-panel';
+import { DocumentsPanel } from '../../features/jobs/components/documents-panel';
 import { JobHeader } from '../../features/jobs/components/job-header';
 import { JobTimeline } from '../../features/jobs/components/job-timeline';
 import { LineItemsPanel } from '../../features/jobs/components/line-items-panel';
@@ -60,6 +62,7 @@ export function Component() {
       <div className="grid grid-cols-1 items-start gap-6 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="grid gap-6">
           <JobHeader job={data} mayMove={workshop} />
+          {isAllowed(role, 'checks', 'list') ? <CheckRunsPanel jobId={data.id} /> : null}
           {isAllowed(role, 'readings', 'list') ? (
             <ReadingsPanel jobId={data.id} mayAdd={isAllowed(role, 'readings', 'create')} />
           ) : null}
@@ -69,6 +72,15 @@ export function Component() {
         </div>
         <div className="grid gap-6">
           <JobTimeline job={data} mayNote={workshop} />
+          <DocumentsPanel
+            job={data}
+            rights={{
+              readReport: isAllowed(role, 'checks', 'read'),
+              sendDocuments: isAllowed(role, 'lineItems', 'create'),
+              listEstimates: isAllowed(role, 'invoices', 'list'),
+              decide: role === 'customer' ? 'customer' : role === 'owner' ? 'owner' : null,
+            }}
+          />
           {isAllowed(role, 'attachments', 'list') ? (
             <AttachmentsPanel jobId={data.id} mayUpload={isAllowed(role, 'attachments', 'create')} />
           ) : null}

@@ -18,6 +18,14 @@ import {
   type UpdateLineItemInput,
 } from '../../../../shared/api/line-items';
 import { jobReadingsPath, ReadingSchema, type CreateReadingInput } from '../../../../shared/api/readings';
+import {
+  EstimateCreatedSchema,
+  estimateApprovePath,
+  estimateDeclinePath,
+  EstimateSchema,
+  jobEstimatePath,
+} from '../../../../shared/api/estimates';
+import { jobReportSendPath } from '../../../../shared/api/job-documents';
 import { ApiError, CLIENT_ERROR_CODES, request } from '../../../lib/api-client';
 import { jobQueries } from './queries';
 
@@ -172,5 +180,60 @@ export function useUploadAttachment(jobId: number) {
       onProgress: (f: number) => void;
     }) => uploadAttachment(jobId, file, caption, onProgress),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: jobQueries.attachments(jobId).queryKey }),
+  });
+}
+
+export function useSendEstimate(jobId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (note: string) =>
+      sendJson(
+        'POST',
+        jobEstimatePath(jobId),
+        EstimateCreatedSchema,
+        note.trim() ? { note: note.trim() } : {},
+      ),
+    onSuccess: () =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: jobQueries.estimates(jobId).queryKey }),
+        // Sending the estimate moves the job to awaiting approval.
+        queryClient.invalidateQueries({ queryKey: jobQueries.detail(jobId).queryKey, exact: true }),
+        queryClient.invalidateQueries({ queryKey: jobQueries.lists() }),
+      ]),
+  });
+}
+
+/** The customer's yes or no (or the owner recording it, with how it was given). */
+export function useDecideEstimate(jobId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({
+      estimateId,
+      decision,
+      note,
+    }: {
+      estimateId: number;
+      decision: 'approve' | 'decline';
+      note: string;
+    }) =>
+      sendJson(
+        'POST',
+        decision === 'approve' ? estimateApprovePath(estimateId) : estimateDeclinePath(estimateId),
+        EstimateSchema,
+        note.trim() ? { note: note.trim() } : {},
+      ),
+    onSuccess: () =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: jobQueries.estimates(jobId).queryKey }),
+        queryClient.invalidateQueries({ queryKey: jobQueries.detail(jobId).queryKey, exact: true }),
+        queryClient.invalidateQueries({ queryKey: jobQueries.lists() }),
+      ]),
+  });
+}
+
+export function useSendReport(jobId: number) {
+  return useMutation({
+    mutationFn: (again: boolean) =>
+      sendJson('POST', `${jobReportSendPath(jobId)}${again ? '?again=true' : ''}`, z.unknown()),
   });
 }

@@ -11,6 +11,7 @@ import {
 import { jobLineItemsPath, LineItemListSchema } from '../../../../shared/api/line-items';
 import { MachineListSchema, MACHINES_PATH } from '../../../../shared/api/machines';
 import { jobReadingsPath, ReadingListSchema } from '../../../../shared/api/readings';
+import { EstimateListSchema, jobEstimatesPath } from '../../../../shared/api/estimates';
 import { request } from '../../../lib/api-client';
 import { businessSettingsQuery } from '../../../lib/business-settings';
 import { itemsOf, listPath, nextCursorOf } from '../../../lib/cursor-list';
@@ -55,14 +56,26 @@ export const jobQueries = {
       queryKey: [...jobQueries.details(), id] as const,
       queryFn: ({ signal }) => request(jobPath(id), JobDetailSchema, { signal }),
     }),
+  estimates: (id: number) =>
+    queryOptions({
+      queryKey: [...jobQueries.details(), id, 'estimates'] as const,
+      queryFn: ({ signal }) =>
+        request(listPath(jobEstimatesPath(id), { limit: 20 }), EstimateListSchema, { signal }),
+    }),
+  /**
+   * Readings and lines also come from a guided check walked on its own page: asked again each
+   * time the job page opens (staleTime 0), so coming back from a check shows what it added.
+   */
   readings: (id: number) =>
     queryOptions({
+      staleTime: 0,
       queryKey: [...jobQueries.details(), id, 'readings'] as const,
       queryFn: ({ signal }) =>
         request(listPath(jobReadingsPath(id), { limit: RECORDS_LIMIT }), ReadingListSchema, { signal }),
     }),
   lineItems: (id: number) =>
     queryOptions({
+      staleTime: 0,
       queryKey: [...jobQueries.details(), id, 'line-items'] as const,
       queryFn: ({ signal }) =>
         request(listPath(jobLineItemsPath(id), { limit: RECORDS_LIMIT }), LineItemListSchema, { signal }),

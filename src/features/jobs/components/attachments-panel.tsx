@@ -77,7 +77,7 @@ export function AttachmentsPanel({ jobId, mayUpload }: { jobId: number; mayUploa
         </ul>
       ) : null}
       {mayUpload ? (
-        <div className="mt-4 grid gap-3 border-t-2 border-rule pt-4 sm:grid-cols-2 sm:items-start">
+        <div className="mt-4 grid gap-3 border-t-2 border-rule pt-4">
           <FormField
             label="Caption (optional)"
             value={caption}
@@ -98,14 +98,14 @@ export function AttachmentsPanel({ jobId, mayUpload }: { jobId: number; mayUploa
               aria-describedby={`upload-${jobId}-hint`}
               accept={ATTACHMENT_CONTENT_TYPES.join(',')}
               disabled={upload.isPending}
-              className="min-h-touch text-lg file:mr-3 file:min-h-touch file:rounded-plate file:border-2 file:border-ink file:bg-panel file:px-4 file:font-bold file:text-ink"
+              className="min-h-touch w-full min-w-0 text-lg file:mr-3 file:min-h-touch file:rounded-plate file:border-2 file:border-ink file:bg-panel file:px-4 file:font-bold file:text-ink"
               onChange={(event) => {
                 const file = event.target.files?.[0];
                 if (file) send(file);
               }}
             />
           </div>
-          <div className="sm:col-span-2" aria-live="polite">
+          <div aria-live="polite">
             {progress !== null ? (
               <div className="grid gap-1">
                 <progress className="h-4 w-full" max={1} value={progress} aria-label="Upload progress" />

@@ -26,7 +26,9 @@ export function JobTimeline({ job, mayNote }: { job: JobDetail; mayNote: boolean
                 <strong>
                   {event.fromStatus
                     ? `${JOB_STATUS_LABELS[event.fromStatus]} → ${JOB_STATUS_LABELS[event.toStatus]}`
-                    : `Booked as ${JOB_STATUS_LABELS[event.toStatus]}`}
+                    : event.toStatus === 'booked'
+                      ? 'Booked'
+                      : `Opened as ${JOB_STATUS_LABELS[event.toStatus]}`}
                 </strong>
               ) : null}
               {event.note ? <span className="block">{event.note}</span> : null}

@@ -144,7 +144,7 @@ export function ReadingsPanel({ jobId, mayAdd }: { jobId: number; mayAdd: boolea
           }}
         >
           <SelectField
-            label="Quantity"
+            label="What was measured"
             value={quantity}
             options={QUANTITIES.map((q) => ({ value: q, label: q }))}
             onChange={(event) => setQuantity(event.target.value as Quantity)}
