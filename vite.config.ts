@@ -8,6 +8,9 @@ const devApiPort = Number(process.env.VANBAY_DEV_API_PORT ?? 5181);
 
 export default defineConfig({
   plugins: [react(), tailwindcss()],
+  // zod reads this global when it loads: with it, no `new Function` probe, which the dashboard's
+  // Content-Security-Policy (no 'unsafe-eval') would report as a violation.
+  define: { 'globalThis.__zod_globalConfig': JSON.stringify({ jitless: true }) },
   build: {
     outDir: CLIENT_OUT_DIR,
     emptyOutDir: true,

@@ -10,6 +10,7 @@ import type { ErrorBody } from '../shared/api/errors';
 import type { Db } from './db/client';
 import { randomBytes } from 'node:crypto';
 import { authenticate } from './auth/middleware';
+import { securityHeaders } from './http/security-headers';
 import { HttpError, NotFoundError } from './errors';
 import { mailNotSetUp, type Mailer } from './mail/mailer';
 import { paymentsNotSetUp, type PaymentProvider } from './payments/provider';
@@ -54,6 +55,7 @@ export function createApp({
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  app.use(securityHeaders());
 
   if (log) {
     app.use(

@@ -267,7 +267,8 @@ export async function runResume(
   const procedure = findProcedure(stored.procedureKey);
   if (!procedure)
     throw new UsageError(`check ${stored.id} is a ${stored.procedureKey}, which this CLI does not know`);
-  const { spec } = await machineSpec(api, jobId);
+  // Judged by the limits the run started with, as the server judges it, not the machine's today.
+  const spec = stored.spec;
   const before: RunState = {
     ...startRun(procedure),
     steps: stored.steps.map((s) => ({

@@ -137,8 +137,16 @@ async function linesApplied(db: Reader, run: RunRow): Promise<boolean> {
 async function presentRun(db: Reader, job: JobInScope, run: RunRow): Promise<CheckRun> {
   const { steps, view } = await walkStoredRun(db, job, run);
   // Parsed with the wire schema: the engine's readonly data becomes the plain JSON it promises.
+  const spec = specOf(run, job);
   return CheckRunSchema.parse({
     ...toSummary(run),
+    spec: {
+      fuelPressureMinKpa: spec.fuelPressureMinKpa ?? null,
+      fuelPressureMaxKpa: spec.fuelPressureMaxKpa ?? null,
+      holdMaxDropKpa: spec.holdMaxDropKpa ?? null,
+      holdMinutes: spec.holdMinutes ?? null,
+      flowMinLph: spec.flowMinLph ?? null,
+    },
     steps: view.steps.map((step, i) => ({
       ...step,
       cautionAcknowledgedAt: iso(steps[i]!.cautionAcknowledgedAt),

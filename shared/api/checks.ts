@@ -203,8 +203,22 @@ export const CheckRunSummarySchema = z.object({
 });
 export type CheckRunSummary = z.infer<typeof CheckRunSummarySchema>;
 
+/**
+ * The limits a run is judged by, in canonical units: the machine's specs as they were when the
+ * run started (a later edit of the machine does not re-judge it); null means the generic default.
+ */
+export const RunSpecSchema = z.object({
+  fuelPressureMinKpa: z.number().nullable(),
+  fuelPressureMaxKpa: z.number().nullable(),
+  holdMaxDropKpa: z.number().nullable(),
+  holdMinutes: z.number().nullable(),
+  flowMinLph: z.number().nullable(),
+});
+export type RunSpec = z.infer<typeof RunSpecSchema>;
+
 /** A run with everything the server's walk of its stored answers derives. */
 export const CheckRunSchema = CheckRunSummarySchema.extend({
+  spec: RunSpecSchema,
   steps: z.array(CheckStepSchema),
   /** The step to answer next; null once finished. */
   current: CurrentStepSchema.nullable(),

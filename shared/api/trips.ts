@@ -85,18 +85,20 @@ export const CreateTripInputSchema = z
 export type CreateTripInput = z.infer<typeof CreateTripInputSchema>;
 
 /** End a trip (set its end odometer) or correct it; the end must not be below the start. */
-export const UpdateTripInputSchema = z.strictObject({
-  jobId: IdSchema.nullish(),
-  tripDate: IsoDateSchema.optional(),
-  startOdometer: odometer().optional(),
-  endOdometer: odometer().nullish(),
-  origin: optionalText(200),
-  destination: text(200).optional(),
-  purpose: text(500).optional(),
-  startedAt: IsoDateTimeSchema.nullish(),
-  /** Defaults to now when an open trip is given its end odometer. */
-  endedAt: IsoDateTimeSchema.nullish(),
-});
+export const UpdateTripInputSchema = z
+  .strictObject({
+    jobId: IdSchema.nullish(),
+    tripDate: IsoDateSchema.optional(),
+    startOdometer: odometer().optional(),
+    endOdometer: odometer().nullish(),
+    origin: optionalText(200),
+    destination: text(200).optional(),
+    purpose: text(500).optional(),
+    startedAt: IsoDateTimeSchema.nullish(),
+    /** Defaults to now when an open trip is given its end odometer. */
+    endedAt: IsoDateTimeSchema.nullish(),
+  })
+  .refine((value) => Object.keys(value).length > 0, { message: 'Nothing to change' });
 export type UpdateTripInput = z.infer<typeof UpdateTripInputSchema>;
 
 export const TripListQuerySchema = ListQuerySchema.extend({

@@ -398,8 +398,17 @@ describe('saving a whole run at once (offline sync)', () => {
         .get(`/api/jobs/${ownJob}/checks/${run.id}`)
         .set(as(api, 'helper'))
         .expect(200);
-      const running = CheckRunSchema.parse(reread.body).steps.find((s) => s.stepKey === 'running-pressure')!;
+      const parsed = CheckRunSchema.parse(reread.body);
+      const running = parsed.steps.find((s) => s.stepKey === 'running-pressure')!;
       expect(running.evaluation!.verdict).toBe('fail');
+      // The run says which limits it is judged by, so the CLI and the dashboard judge it the same way.
+      expect(parsed.spec).toEqual({
+        fuelPressureMinKpa: machine!.fuelPressureMinKpa,
+        fuelPressureMaxKpa: machine!.fuelPressureMaxKpa,
+        holdMaxDropKpa: machine!.holdMaxDropKpa,
+        holdMinutes: machine!.holdMinutes,
+        flowMinLph: machine!.flowMinLph,
+      });
     } finally {
       await api.database.db
         .update(t.machines)

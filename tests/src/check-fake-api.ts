@@ -70,6 +70,13 @@ export function presentRun(run: FakeRun): CheckRun {
     startedAt: AT,
     finishedAt: view.finished ? AT : null,
     clientId: null,
+    spec: {
+      fuelPressureMinKpa: run.spec?.fuelPressureMinKpa ?? null,
+      fuelPressureMaxKpa: run.spec?.fuelPressureMaxKpa ?? null,
+      holdMaxDropKpa: run.spec?.holdMaxDropKpa ?? null,
+      holdMinutes: run.spec?.holdMinutes ?? null,
+      flowMinLph: run.spec?.flowMinLph ?? null,
+    },
     steps: view.steps.map((step) => ({
       ...step,
       cautionAcknowledgedAt: step.cautionAcknowledged ? AT : null,

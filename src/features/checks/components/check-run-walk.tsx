@@ -80,7 +80,8 @@ function RunPage({ run, role }: { run: CheckRun; role: Role }) {
   const mayAnswer = isAllowed(role, 'checks', 'update');
   const step = procedure && run.current ? procedure.steps[run.current.key] : undefined;
   const open = !run.finished && run.status !== 'abandoned';
-  const spec = context.data?.spec ?? null;
+  // The limits the run started with, as the server judges it (a later machine edit changes nothing).
+  const spec = run.spec;
   const lastError = answer.error ?? back.error ?? pause.error;
   const busy = answer.isPending ? 'saving' : back.isPending ? 'backing' : pause.isPending ? 'pausing' : null;
 
