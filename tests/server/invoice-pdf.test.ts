@@ -4,11 +4,11 @@ import path from 'node:path';
 import { differenceInCalendarDays } from 'date-fns';
 import { asc, eq, sql } from 'drizzle-orm';
 import { execa } from 'execa';
-import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as t from '../../server/db/schema';
 import { invoiceTotals } from '../../shared/money';
+import { getBinary, readPdf, squash } from '../helpers/pdf';
 import { as, seededApi, type Caller, type TestApi } from '../helpers/api';
 import { SEED_TODAY } from '../helpers/fixtures';
 import { freshInvoice } from './access/money';
@@ -20,44 +20,8 @@ beforeAll(async () => {
 afterAll(() => api.close());
 
 function getPdf(invoiceId: number, caller: Caller = 'owner', query = '') {
-  return (
-    request(api.app)
-      .get(`/api/invoices/${invoiceId}/pdf${query}`)
-      .set(as(api, caller))
-      .buffer(true)
-      // Collects the binary body: supertest parses only text and JSON by itself.
-      .parse((res, callback) => {
-        const stream = res as unknown as NodeJS.ReadableStream;
-        const chunks: Buffer[] = [];
-        stream.on('data', (chunk: Buffer) => chunks.push(chunk));
-        stream.on('end', () => callback(null, Buffer.concat(chunks)));
-      })
-  );
+  return getBinary(api.app, `/api/invoices/${invoiceId}/pdf${query}`, as(api, caller));
 }
-
-interface PdfPage {
-  text: string;
-  width: number;
-  height: number;
-}
-
-/** Each page's text (pdf.js's reading of it) and its size in points. */
-async function readPdf(bytes: Buffer): Promise<PdfPage[]> {
-  const pdf = await getDocument({ data: new Uint8Array(bytes), disableFontFace: true }).promise;
-  const pages: PdfPage[] = [];
-  for (let n = 1; n <= pdf.numPages; n += 1) {
-    const page = await pdf.getPage(n);
-    const { width, height } = page.getViewport({ scale: 1 });
-    const content = await page.getTextContent();
-    const text = content.items.map((item) => ('str' in item ? item.str : '')).join(' ');
-    pages.push({ text, width, height });
-  }
-  await pdf.destroy();
-  return pages;
-}
-
-/** Text compared without its white space, so a wrapped line still reads as one string. */
-const squash = (text: string) => text.replace(/\s+/g, '');
 
 /** The cross-check formatter: ECMA-402 Intl.NumberFormat, en-US dollars (not the code under test). */
 const dollars = (cents: number) =>

@@ -2,13 +2,14 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { and, asc, eq, inArray } from 'drizzle-orm';
 import { unit as mathUnit } from 'mathjs';
-import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import * as t from '../../server/db/schema';
 import { CHART_COLOUR, GENERIC_LABEL, MANUAL_GOVERNS, MANUAL_LABEL } from '../../server/pdf/report-pdf';
 import { OutboxItemSchema, OutboxListSchema } from '../../shared/api/outbox';
 import { CAUTIONS, DEFER_LINE } from '../../shared/procedures/cautions';
+import { getDocument } from 'pdfjs-dist/legacy/build/pdf.mjs';
+import { getBinary, readPdf, squash } from '../helpers/pdf';
 import { as, seededApi, type Caller, type TestApi } from '../helpers/api';
 
 let api: TestApi;
@@ -20,44 +21,9 @@ afterAll(() => api.close());
 const OUTPUT = path.resolve('tests/server/output');
 
 function getReport(jobId: number, caller: Caller = 'owner', query = '') {
-  return (
-    request(api.app)
-      .get(`/api/jobs/${jobId}/report.pdf${query}`)
-      .set(as(api, caller))
-      .buffer(true)
-      // Collects the binary body: supertest parses only text and JSON by itself.
-      .parse((res, callback) => {
-        const stream = res as unknown as NodeJS.ReadableStream;
-        const chunks: Buffer[] = [];
-        stream.on('data', (chunk: Buffer) => chunks.push(chunk));
-        stream.on('end', () => callback(null, Buffer.concat(chunks)));
-      })
-  );
+  return getBinary(api.app, `/api/jobs/${jobId}/report.pdf${query}`, as(api, caller));
 }
 
-interface PdfPage {
-  text: string;
-  width: number;
-  height: number;
-}
-
-/** Each page's text (pdf.js's reading of it) and its size in points. */
-async function readPdf(bytes: Buffer): Promise<PdfPage[]> {
-  const pdf = await getDocument({ data: new Uint8Array(bytes), disableFontFace: true }).promise;
-  const pages: PdfPage[] = [];
-  for (let n = 1; n <= pdf.numPages; n += 1) {
-    const page = await pdf.getPage(n);
-    const { width, height } = page.getViewport({ scale: 1 });
-    const content = await page.getTextContent();
-    const text = content.items.map((item) => ('str' in item ? item.str : '')).join(' ');
-    pages.push({ text, width, height });
-  }
-  await pdf.destroy();
-  return pages;
-}
-
-/** Text compared without its white space, so a wrapped line still reads as one string. */
-const squash = (text: string) => text.replace(/\s+/g, '');
 const textOf = async (bytes: Buffer) => squash((await readPdf(bytes)).map((p) => p.text).join(' '));
 
 /** Jobs of the seed's demo customers with a finished fuel-delivery run on them. */
