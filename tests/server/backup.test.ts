@@ -281,7 +281,7 @@ describe('restore', () => {
     await source.database.db.execute(
       sql`update customers set updated_at = '2026-11-18 15:00:00.123456+00' where name = 'Teodor Quill'`,
     );
-    await source.database.db.execute(sql`update businesses set labour_rate_cents = 13_500`);
+    await source.database.db.execute(sql`update businesses set labour_rate_cents = 13500`);
   });
   afterAll(() => Promise.all([source.close(), target.close()]));
 

@@ -1,12 +1,12 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { PGlite } from '@electric-sql/pglite';
 import { sql } from 'drizzle-orm';
 import { getTableConfig, PgTable } from 'drizzle-orm/pg-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { fromPglite, queryRows, type Database } from '../../server/db/client';
+import { queryRows, type Database } from '../../server/db/client';
 import { migrate, MIGRATIONS_FOLDER } from '../../server/db/migrate';
 import * as schema from '../../server/db/schema';
+import { blankDatabase } from '../helpers/db';
 
 const tables = (Object.values(schema) as unknown[])
   .filter((value): value is PgTable => value instanceof PgTable)
@@ -15,7 +15,7 @@ const tables = (Object.values(schema) as unknown[])
 describe('migrations on an empty database', () => {
   let database: Database;
   beforeAll(async () => {
-    database = fromPglite(await PGlite.create());
+    database = await blankDatabase();
     await migrate(database);
   });
   afterAll(() => database.close());
