@@ -6,6 +6,8 @@ const pkg = JSON.parse(readFileSync(new URL('../package.json', import.meta.url),
   version: string;
 };
 
+// One file, no splitting: esbuild still wraps each module reached only through `await import()` in
+// a lazy initialiser, so a command's code (zod, the schemas) runs only when program.ts loads it.
 await build({
   entryPoints: [new URL('./index.ts', import.meta.url).pathname],
   outfile: new URL('./dist/vanbay.js', import.meta.url).pathname,

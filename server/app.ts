@@ -4,6 +4,7 @@
  */
 import { existsSync } from 'node:fs';
 import path from 'node:path';
+import compression from 'compression';
 import express, { type ErrorRequestHandler, type RequestHandler } from 'express';
 import morgan from 'morgan';
 import type { ErrorBody } from '../shared/api/errors';
@@ -56,6 +57,13 @@ export function createApp({
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
   app.use(securityHeaders());
+  // gzip for the dashboard's files and the JSON answers; files sent as documents (PDF, CSV, backup,
+  // attachments: anything with a Content-Disposition) keep their Content-Length and go out as they are.
+  app.use(
+    compression({
+      filter: (req, res) => !res.hasHeader('Content-Disposition') && compression.filter(req, res),
+    }),
+  );
 
   if (log) {
     app.use(

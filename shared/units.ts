@@ -8,7 +8,7 @@
  * mathjs, which is exact enough, would outweigh the whole dashboard. The tests check every factor
  * against mathjs and against NIST's printed figures.
  */
-import { CANONICAL_UNITS, type Quantity } from './api/readings';
+import { CANONICAL_UNITS, type Quantity } from './quantities';
 
 export type Dimension =
   'pressure' | 'voltage' | 'volume' | 'flow' | 'distance' | 'temperature' | 'time' | 'resistance' | 'ratio';

@@ -7,7 +7,7 @@
 import { existsSync, readFileSync, renameSync, rmSync, statSync } from 'node:fs';
 import { open, type FileHandle } from 'node:fs/promises';
 import path from 'node:path';
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { z } from 'zod';
 import {
   BACKUP_CONTENT_TYPE,
@@ -285,44 +285,30 @@ export async function runRestore(
 
 const rowsIn = (tables: Record<string, number>) => Object.values(tables).reduce((sum, n) => sum + n, 0);
 
-export function backupCommand(deps: CliDeps) {
-  return new Command('backup')
-    .description("download the business's whole data to FILE (owner only; keep the file safe)")
-    .argument('<file>', 'where to write the backup (JSON)')
-    .option('--json', 'print {file, bytes, tables} as JSON')
-    .action(async (file: string, raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const summary = await runBackup(deps, file, options);
-      if (options.json) {
-        deps.stdout.write(`${JSON.stringify(summary)}\n`);
-        return;
-      }
-      const tables = Object.keys(summary.tables).length;
-      deps.stdout.write(
-        `${theme.pass('backed up')} ${rowsIn(summary.tables)} rows in ${tables} tables to ${summary.file} (${formatBytes(summary.bytes)})\n`,
-      );
-    });
+export async function backupAction(deps: CliDeps, file: string, raw: unknown, command: Command) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const summary = await runBackup(deps, file, options);
+  if (options.json) {
+    deps.stdout.write(`${JSON.stringify(summary)}\n`);
+    return;
+  }
+  const tables = Object.keys(summary.tables).length;
+  deps.stdout.write(
+    `${theme.pass('backed up')} ${rowsIn(summary.tables)} rows in ${tables} tables to ${summary.file} (${formatBytes(summary.bytes)})\n`,
+  );
 }
 
-export function restoreCommand(deps: CliDeps) {
-  return new Command('restore')
-    .description("replace the business's whole data with a backup FILE (owner only)")
-    .argument('<file>', 'a backup written by `vanbay backup`')
-    .option('--yes', 'do not ask for confirmation')
-    .option('--force', 'restore a backup of another business (another slug) onto this one')
-    .option('--json', 'print the counts restored as JSON')
-    .action(async (file: string, raw: unknown, command: Command) => {
-      const options = RestoreOptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runRestore(deps, file, options);
-      if (options.json) {
-        deps.stdout.write(`${JSON.stringify(result)}\n`);
-        return;
-      }
-      deps.stdout.write(
-        `${theme.pass('restored')} ${result.business} from the backup of ${result.backupCreatedAt}: ` +
-          `${rowsIn(result.tables)} rows, ${result.files} files\n`,
-      );
-      for (const [table, count] of Object.entries(result.tables))
-        deps.stdout.write(`  ${table.padEnd(20)} ${String(count).padStart(7)}\n`);
-    });
+export async function restoreAction(deps: CliDeps, file: string, raw: unknown, command: Command) {
+  const options = RestoreOptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runRestore(deps, file, options);
+  if (options.json) {
+    deps.stdout.write(`${JSON.stringify(result)}\n`);
+    return;
+  }
+  deps.stdout.write(
+    `${theme.pass('restored')} ${result.business} from the backup of ${result.backupCreatedAt}: ` +
+      `${rowsIn(result.tables)} rows, ${result.files} files\n`,
+  );
+  for (const [table, count] of Object.entries(result.tables))
+    deps.stdout.write(`  ${table.padEnd(20)} ${String(count).padStart(7)}\n`);
 }

@@ -3,8 +3,7 @@
  * computed by the same shared evaluators the checks use. A fail verdict is an answer (exit 0);
  * only input that cannot be read is an error (exit 2).
  */
-import { Command } from 'commander';
-import { z } from 'zod';
+import type { Command } from 'commander';
 import { BATTERY_TYPES, evaluateBatteryRest } from '../../shared/evaluators/battery';
 import { evaluateCompression } from '../../shared/evaluators/compression';
 import { evaluateFlowVolume, GENERIC_MIN_FLOW_LPH } from '../../shared/evaluators/flow-volume';
@@ -239,13 +238,11 @@ export function runMileage(milesText: string, yearText: string, rateText: string
   return { rateCentsPerMile: tenths / 10, deductionCents, year };
 }
 
-const JsonOption = z.object({ json: z.boolean().optional() });
-
 type Printable = Record<string, unknown> & { verdict?: Evaluation['verdict']; reason?: string };
 
 function print(deps: CliDeps, command: Command, result: Printable, headline: string) {
-  const { json } = JsonOption.parse(command.opts());
-  if (json) {
+  // No zod here: `calc` stays offline and quick to start, and commander gives `--json` as a boolean.
+  if (command.opts<{ json?: boolean }>().json) {
     deps.stdout.write(`${JSON.stringify(result)}\n`);
     return;
   }
@@ -256,102 +253,84 @@ function print(deps: CliDeps, command: Command, result: Printable, headline: str
 
 const cents = (value: number) => `$${(value / 100).toFixed(2)}`;
 
-export function calcCommand(deps: CliDeps) {
-  const calc = new Command('calc').description(
-    'offline calculators: units, battery, drop, lambda, hold, flow, compression, VIN, mileage',
+export function calcConvertAction(
+  deps: CliDeps,
+  value: string,
+  from: string,
+  to: string,
+  _o: unknown,
+  command: Command,
+) {
+  const result = runConvert(value, from, to);
+  // The JSON keeps every digit; the line for the eye keeps four decimals.
+  print(deps, command, result, `${round(result.value, 4)} ${result.unit}`);
+}
+
+export function calcBatteryAction(deps: CliDeps, volts: string, options: { type: string }, command: Command) {
+  const result = runBattery(volts, options.type);
+  const soc = result.stateOfChargePct === null ? 'charge unknown' : `${result.stateOfChargePct} % charged`;
+  print(deps, command, result, soc);
+}
+
+export function calcDropAction(
+  deps: CliDeps,
+  supply: string,
+  load: string,
+  options: { max?: string },
+  command: Command,
+) {
+  const result = runDrop(supply, load, options.max);
+  print(deps, command, result, `${result.dropVolts} V drop (limit ${result.maxDropVolts} V)`);
+}
+
+export function calcLambdaAction(deps: CliDeps, afr: string, options: { fuel: string }, command: Command) {
+  const result = runLambda(afr, options.fuel);
+  print(
+    deps,
+    command,
+    result,
+    `λ ${result.lambda} — ${result.mixture} (stoichiometric ${result.stoichAfr}:1)`,
   );
-  const sub = (name: string, description: string) =>
-    calc.command(name).description(description).option('--json', 'print the result as JSON');
+}
 
-  sub(
-    'convert',
-    'convert VALUE from one unit to another (psi kPa bar, mL L gal floz, L/h mL/min gal/h, mi km, F C)',
-  )
-    .argument('<value>')
-    .argument('<from>')
-    .argument('<to>')
-    .action((value: string, from: string, to: string, _o: unknown, command: Command) => {
-      const result = runConvert(value, from, to);
-      // The JSON keeps every digit; the line for the eye keeps four decimals.
-      print(deps, command, result, `${round(result.value, 4)} ${result.unit}`);
-    });
+export function calcHoldAction(
+  deps: CliDeps,
+  options: { points: string; maxDrop: string; minutes: string },
+  command: Command,
+) {
+  const result = runHold(options.points, options.maxDrop, options.minutes);
+  print(deps, command, result, `fell ${result.dropPsi} psi (limit ${result.maxDropPsi} psi)`);
+}
 
-  sub('battery', 'state of charge from the resting voltage')
-    .argument('<volts>')
-    .option('--type <type>', 'flooded, agm or lithium', 'flooded')
-    .action((volts: string, options: { type: string }, command: Command) => {
-      const result = runBattery(volts, options.type);
-      const soc =
-        result.stateOfChargePct === null ? 'charge unknown' : `${result.stateOfChargePct} % charged`;
-      print(deps, command, result, soc);
-    });
+export function calcFlowAction(
+  deps: CliDeps,
+  options: { ml: string; seconds: string; minLph?: string },
+  command: Command,
+) {
+  const result = runFlow(options.ml, options.seconds, options.minLph);
+  print(deps, command, result, `${result.litersPerHour} L/h (minimum ${result.minLph} L/h)`);
+}
 
-  sub('drop', 'voltage lost between the supply and the load')
-    .argument('<supplyVolts>')
-    .argument('<loadVolts>')
-    .option('--max <volts>', 'largest acceptable drop (default 0.5 V)')
-    .action((supply: string, load: string, options: { max?: string }, command: Command) => {
-      const result = runDrop(supply, load, options.max);
-      print(deps, command, result, `${result.dropVolts} V drop (limit ${result.maxDropVolts} V)`);
-    });
+export function calcCompressionAction(deps: CliDeps, values: string[], _o: unknown, command: Command) {
+  const result = runCompression(values);
+  print(deps, command, result, `spread ${result.spreadPct} %`);
+}
 
-  sub('lambda', 'lambda and mixture from an air-fuel ratio')
-    .argument('<afr>')
-    .option('--fuel <fuel>', FUELS.join(', '), 'gasoline')
-    .action((afr: string, options: { fuel: string }, command: Command) => {
-      const result = runLambda(afr, options.fuel);
-      print(
-        deps,
-        command,
-        result,
-        `λ ${result.lambda} — ${result.mixture} (stoichiometric ${result.stoichAfr}:1)`,
-      );
-    });
+export function calcVinAction(deps: CliDeps, vin: string, _o: unknown, command: Command) {
+  const result = runVin(vin);
+  const years = result.modelYears.length > 0 ? `  model year ${result.modelYears.join(' or ')}` : '';
+  const headline = result.valid
+    ? `${theme.pass('valid')}  check digit ${result.checkDigit}${years}`
+    : `${theme.fail('not valid')}  ${result.checkDigit === null ? 'not a 17-character VIN (no I, O or Q)' : `check digit should be ${result.checkDigit}`}${years}`;
+  print(deps, command, result, headline);
+}
 
-  sub('hold', 'static pressure hold: drop after the 30 s settling window')
-    .requiredOption('--points <list>', 'SEC:PSI,SEC:PSI,… since the pump stopped')
-    .requiredOption('--max-drop <psi>', 'largest acceptable drop in psi')
-    .requiredOption('--minutes <m>', 'length of the hold test')
-    .action((options: { points: string; maxDrop: string; minutes: string }, command: Command) => {
-      const result = runHold(options.points, options.maxDrop, options.minutes);
-      print(deps, command, result, `fell ${result.dropPsi} psi (limit ${result.maxDropPsi} psi)`);
-    });
-
-  sub('flow', 'flow volume from fuel collected in a timed run')
-    .requiredOption('--ml <ml>', 'fuel collected, mL')
-    .requiredOption('--seconds <s>', 'time the pump ran')
-    .option('--min-lph <n>', `minimum from the service manual (default ${GENERIC_MIN_FLOW_LPH} L/h, generic)`)
-    .action((options: { ml: string; seconds: string; minLph?: string }, command: Command) => {
-      const result = runFlow(options.ml, options.seconds, options.minLph);
-      print(deps, command, result, `${result.litersPerHour} L/h (minimum ${result.minLph} L/h)`);
-    });
-
-  sub('compression', 'spread across cylinders: (highest − lowest) / highest')
-    .argument('<psi...>')
-    .action((values: string[], _o: unknown, command: Command) => {
-      const result = runCompression(values);
-      print(deps, command, result, `spread ${result.spreadPct} %`);
-    });
-
-  sub('vin', 'check digit (49 CFR 565.15) and possible model years')
-    .argument('<vin>')
-    .action((vin: string, _o: unknown, command: Command) => {
-      const result = runVin(vin);
-      const years = result.modelYears.length > 0 ? `  model year ${result.modelYears.join(' or ')}` : '';
-      const headline = result.valid
-        ? `${theme.pass('valid')}  check digit ${result.checkDigit}${years}`
-        : `${theme.fail('not valid')}  ${result.checkDigit === null ? 'not a 17-character VIN (no I, O or Q)' : `check digit should be ${result.checkDigit}`}${years}`;
-      print(deps, command, result, headline);
-    });
-
-  sub('mileage', 'mileage deduction at the standard rate for the tax year')
-    .argument('<miles>')
-    .requiredOption('--year <yyyy>', 'tax year')
-    .option('--rate <cents>', 'cents per mile, instead of the published rate')
-    .action((miles: string, options: { year: string; rate?: string }, command: Command) => {
-      const result = runMileage(miles, options.year, options.rate);
-      print(deps, command, result, `${cents(result.deductionCents)} at ${result.rateCentsPerMile} ¢/mi`);
-    });
-
-  return calc;
+export function calcMileageAction(
+  deps: CliDeps,
+  miles: string,
+  options: { year: string; rate?: string },
+  command: Command,
+) {
+  const result = runMileage(miles, options.year, options.rate);
+  print(deps, command, result, `${cents(result.deductionCents)} at ${result.rateCentsPerMile} ¢/mi`);
 }

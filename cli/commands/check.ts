@@ -3,7 +3,7 @@
  * so every answer is judged the moment it is typed, with or without signal; the finished (or paused)
  * run is then saved to the server, which walks the same answers again and keeps its own verdicts.
  */
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { z } from 'zod';
 import { cautionText } from '../../shared/procedures/cautions';
 import {
@@ -297,44 +297,41 @@ export async function runResume(
   return { runId: stored.id, view: walked.view, paused: walked.paused };
 }
 
-export function checkCommand(deps: CliDeps) {
-  const check = new Command('check').description('guided checks at the roadside');
-  check
-    .command('run')
-    .description('walk a guided check step by step: fuel, battery or compression')
-    .argument('<job>', 'job number')
-    .argument('<procedure>', 'fuel, battery or compression')
-    .option('--json', 'print the saved result as JSON')
-    .action(async (job: string, procedure: string, raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runCheck(deps, job, procedure, options);
-      const summary = {
-        saved: result.saved,
-        queued: result.queued,
-        runId: result.runId,
-        paused: result.paused,
-        verdict: result.view.outcome?.verdict ?? result.view.verdict,
-        findings: result.view.outcome?.findings.map((f) => f.key) ?? [],
-      };
-      if (options.json) deps.stdout.write(`${JSON.stringify(summary)}\n`);
-      else if (result.saved)
-        deps.stdout.write(`${result.paused ? 'paused' : 'saved'} as check ${result.runId}\n`);
-      if (result.view.outcome && result.view.outcome.verdict === 'fail') process.exitCode = 1;
-    });
-  check
-    .command('resume')
-    .description('carry on with a paused check: `vanbay check resume JOB CHECK`')
-    .argument('<job>', 'job number')
-    .argument('<check>', 'check number, as `vanbay check run` printed it')
-    .option('--json', 'print the result as JSON')
-    .action(async (job: string, run: string, raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runResume(deps, job, run, options);
-      const verdict = result.view.outcome?.verdict ?? result.view.verdict;
-      if (options.json)
-        deps.stdout.write(`${JSON.stringify({ runId: result.runId, paused: result.paused, verdict })}\n`);
-      else deps.stdout.write(`${result.paused ? 'paused' : 'saved'}: check ${result.runId}\n`);
-      if (result.view.outcome && result.view.outcome.verdict === 'fail') process.exitCode = 1;
-    });
-  return check;
+export async function checkRunAction(
+  deps: CliDeps,
+  job: string,
+  procedure: string,
+  raw: unknown,
+  command: Command,
+) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runCheck(deps, job, procedure, options);
+  const summary = {
+    saved: result.saved,
+    queued: result.queued,
+    runId: result.runId,
+    paused: result.paused,
+    verdict: result.view.outcome?.verdict ?? result.view.verdict,
+    findings: result.view.outcome?.findings.map((f) => f.key) ?? [],
+  };
+  if (options.json) deps.stdout.write(`${JSON.stringify(summary)}\n`);
+  else if (result.saved)
+    deps.stdout.write(`${result.paused ? 'paused' : 'saved'} as check ${result.runId}\n`);
+  if (result.view.outcome && result.view.outcome.verdict === 'fail') process.exitCode = 1;
+}
+
+export async function checkResumeAction(
+  deps: CliDeps,
+  job: string,
+  run: string,
+  raw: unknown,
+  command: Command,
+) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runResume(deps, job, run, options);
+  const verdict = result.view.outcome?.verdict ?? result.view.verdict;
+  if (options.json)
+    deps.stdout.write(`${JSON.stringify({ runId: result.runId, paused: result.paused, verdict })}\n`);
+  else deps.stdout.write(`${result.paused ? 'paused' : 'saved'}: check ${result.runId}\n`);
+  if (result.view.outcome && result.view.outcome.verdict === 'fail') process.exitCode = 1;
 }

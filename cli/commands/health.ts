@@ -1,4 +1,4 @@
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { z } from 'zod';
 import { HEALTH_PATH, HealthSchema } from '../../shared/api/health';
 import { resolveServer, UsageError, type CliDeps } from '../lib/deps';
@@ -32,22 +32,17 @@ export async function runHealth(deps: CliDeps, server: string): Promise<HealthRe
   }
 }
 
-export function healthCommand(deps: CliDeps) {
-  return new Command('health')
-    .description('check that the Vanbay server and its database answer')
-    .option('--json', 'print the result as JSON')
-    .action(async (raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runHealth(deps, resolveServer(options.server, deps.env));
-      if (options.json) {
-        deps.stdout.write(`${JSON.stringify(result)}\n`);
-      } else if (result.ok) {
-        deps.stdout.write(`${theme.pass('online')}  ${result.server}\n`);
-      } else {
-        deps.stdout.write(
-          `${theme.fail('unreachable')}  ${result.server}  ${theme.muted(result.problem ?? '')}\n`,
-        );
-      }
-      if (!result.ok) process.exitCode = 1;
-    });
+export async function healthAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runHealth(deps, resolveServer(options.server, deps.env));
+  if (options.json) {
+    deps.stdout.write(`${JSON.stringify(result)}\n`);
+  } else if (result.ok) {
+    deps.stdout.write(`${theme.pass('online')}  ${result.server}\n`);
+  } else {
+    deps.stdout.write(
+      `${theme.fail('unreachable')}  ${result.server}  ${theme.muted(result.problem ?? '')}\n`,
+    );
+  }
+  if (!result.ok) process.exitCode = 1;
 }

@@ -3,7 +3,7 @@
  * asks for what is missing (searching customers and their machines as you type) when a person is
  * at the keyboard.
  */
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { addDays, format, startOfWeek } from 'date-fns';
 import { z } from 'zod';
 import { CustomerListSchema, CustomerSchema, CUSTOMERS_PATH } from '../../shared/api/customers';
@@ -243,114 +243,96 @@ export async function runJobNew(deps: CliDeps, options: z.infer<typeof NewOption
   });
 }
 
-export function jobCommand(deps: CliDeps) {
-  const job = new Command('job').description('work orders: new, list, show, status, note');
-  const sub = (name: string, description: string) =>
-    job.command(name).description(description).option('--json', 'print the result as JSON');
+export async function jobListAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = ListOptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const jobs = await runJobList(deps, options);
+  if (options.json) deps.stdout.write(`${JSON.stringify(jobs)}\n`);
+  else printJobs(deps, jobs);
+}
 
-  sub('list', 'jobs, newest first: --today, --week, --status, --customer, --machine')
-    .option('--status <list>', 'one or several, comma-separated (booked,on_site,…)')
-    .option('--today', "today's jobs")
-    .option('--week', "this week's jobs (Monday to Sunday)")
-    .option('--customer <id>', 'one customer')
-    .option('--machine <id>', 'one machine')
-    .option('--limit <n>', 'at most this many (default 50)')
-    .action(async (raw: unknown, command: Command) => {
-      const options = ListOptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const jobs = await runJobList(deps, options);
-      if (options.json) deps.stdout.write(`${JSON.stringify(jobs)}\n`);
-      else printJobs(deps, jobs);
+export async function jobShowAction(deps: CliDeps, jobText: string, raw: unknown, command: Command) {
+  const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const detail = await createApi(deps, options.server).request(
+    'GET',
+    jobPath(jobNumber(jobText)),
+    JobDetailSchema,
+  );
+  if (options.json) {
+    deps.stdout.write(`${JSON.stringify(detail)}\n`);
+    return;
+  }
+  deps.stdout.write(`${theme.strong(`Job ${detail.id}`)}  ${JOB_STATUS_LABELS[detail.status]}\n`);
+  deps.stdout.write(`${detail.customerName} · ${detail.machineName}\n${detail.complaint}\n`);
+  if (detail.diagnosis) deps.stdout.write(`Diagnosis: ${detail.diagnosis}\n`);
+  for (const event of detail.events) {
+    const what = event.kind === 'status' ? `→ ${JOB_STATUS_LABELS[event.toStatus!]}` : 'note';
+    deps.stdout.write(
+      `${theme.muted(format(new Date(event.at), 'd MMM HH:mm'))}  ${what}${event.note ? `  ${event.note}` : ''}\n`,
+    );
+  }
+  const next = JOB_TRANSITIONS[detail.status];
+  if (next.length > 0)
+    deps.stdout.write(theme.muted(`next: ${next.map((s) => JOB_STATUS_LABELS[s]).join(', ')}\n`));
+}
+
+export async function jobNewAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = NewOptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const created = await runJobNew(deps, options);
+  if (options.json) deps.stdout.write(`${JSON.stringify(created)}\n`);
+  else deps.stdout.write(`${theme.pass('booked')}  job ${created.id}\n`);
+}
+
+export async function jobStatusAction(
+  deps: CliDeps,
+  jobText: string,
+  statusText: string,
+  raw: { note?: string },
+  command: Command,
+) {
+  const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const status = statusText.trim().replace(/[\s-]+/g, '_') as JobStatus;
+  if (!JOB_STATUSES.includes(status))
+    throw new UsageError(`unknown status "${statusText}" (one of ${JOB_STATUSES.join(', ')})`);
+  const moved = await createApi(deps, options.server).request(
+    'POST',
+    jobStatusPath(jobNumber(jobText)),
+    JobSchema,
+    {
+      body: { status, ...(raw.note ? { note: raw.note } : {}) },
+    },
+  );
+  if (options.json) deps.stdout.write(`${JSON.stringify(moved)}\n`);
+  else deps.stdout.write(`job ${moved.id}  ${JOB_STATUS_LABELS[moved.status]}\n`);
+}
+
+export async function jobNoteAction(
+  deps: CliDeps,
+  jobText: string,
+  words: string[],
+  raw: unknown,
+  command: Command,
+) {
+  const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const id = jobNumber(jobText);
+  const note = words.join(' ').trim();
+  if (!note) throw new UsageError('the note is empty');
+  const api = createApi(deps, options.server);
+  const clientId = newClientId();
+  try {
+    await api.request('POST', jobNotesPath(id), z.unknown(), { body: { note, clientId } });
+    if (options.json) deps.stdout.write(`${JSON.stringify({ queued: false, jobId: id, clientId })}\n`);
+    else deps.stdout.write(`noted on job ${id}\n`);
+  } catch (error) {
+    if (!(error instanceof UnreachableError)) throw error;
+    enqueue(deps.env, {
+      clientId,
+      server: api.server,
+      method: 'POST',
+      path: jobNotesPath(id),
+      body: { note },
+      summary: `note on job ${id}`,
     });
-
-  sub('show', 'one job with its timeline')
-    .argument('<job>')
-    .action(async (jobText: string, raw: unknown, command: Command) => {
-      const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const detail = await createApi(deps, options.server).request(
-        'GET',
-        jobPath(jobNumber(jobText)),
-        JobDetailSchema,
-      );
-      if (options.json) {
-        deps.stdout.write(`${JSON.stringify(detail)}\n`);
-        return;
-      }
-      deps.stdout.write(`${theme.strong(`Job ${detail.id}`)}  ${JOB_STATUS_LABELS[detail.status]}\n`);
-      deps.stdout.write(`${detail.customerName} · ${detail.machineName}\n${detail.complaint}\n`);
-      if (detail.diagnosis) deps.stdout.write(`Diagnosis: ${detail.diagnosis}\n`);
-      for (const event of detail.events) {
-        const what = event.kind === 'status' ? `→ ${JOB_STATUS_LABELS[event.toStatus!]}` : 'note';
-        deps.stdout.write(
-          `${theme.muted(format(new Date(event.at), 'd MMM HH:mm'))}  ${what}${event.note ? `  ${event.note}` : ''}\n`,
-        );
-      }
-      const next = JOB_TRANSITIONS[detail.status];
-      if (next.length > 0)
-        deps.stdout.write(theme.muted(`next: ${next.map((s) => JOB_STATUS_LABELS[s]).join(', ')}\n`));
-    });
-
-  sub('new', 'a new job: --customer NAME|ID --machine ID|TEXT --complaint "…"')
-    .option('--customer <customer>', 'customer number or name')
-    .option('--machine <machine>', 'machine number, or make/model/VIN to find it')
-    .option('--complaint <text>', "what's wrong, in the rider's words")
-    .option('--location <text>', 'where the work is')
-    .option('--meter <reading>', "odometer or hours at this visit, in the machine's unit")
-    .action(async (raw: unknown, command: Command) => {
-      const options = NewOptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const created = await runJobNew(deps, options);
-      if (options.json) deps.stdout.write(`${JSON.stringify(created)}\n`);
-      else deps.stdout.write(`${theme.pass('booked')}  job ${created.id}\n`);
-    });
-
-  sub('status', 'move a job on: on_site, diagnosing, awaiting_approval, repairing, complete, cancelled')
-    .argument('<job>')
-    .argument('<status>')
-    .option('--note <text>', 'why, for the timeline')
-    .action(async (jobText: string, statusText: string, raw: { note?: string }, command: Command) => {
-      const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const status = statusText.trim().replace(/[\s-]+/g, '_') as JobStatus;
-      if (!JOB_STATUSES.includes(status))
-        throw new UsageError(`unknown status "${statusText}" (one of ${JOB_STATUSES.join(', ')})`);
-      const moved = await createApi(deps, options.server).request(
-        'POST',
-        jobStatusPath(jobNumber(jobText)),
-        JobSchema,
-        {
-          body: { status, ...(raw.note ? { note: raw.note } : {}) },
-        },
-      );
-      if (options.json) deps.stdout.write(`${JSON.stringify(moved)}\n`);
-      else deps.stdout.write(`job ${moved.id}  ${JOB_STATUS_LABELS[moved.status]}\n`);
-    });
-
-  sub('note', 'add a note to the job timeline (queued when offline)')
-    .argument('<job>')
-    .argument('<text...>')
-    .action(async (jobText: string, words: string[], raw: unknown, command: Command) => {
-      const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const id = jobNumber(jobText);
-      const note = words.join(' ').trim();
-      if (!note) throw new UsageError('the note is empty');
-      const api = createApi(deps, options.server);
-      const clientId = newClientId();
-      try {
-        await api.request('POST', jobNotesPath(id), z.unknown(), { body: { note, clientId } });
-        if (options.json) deps.stdout.write(`${JSON.stringify({ queued: false, jobId: id, clientId })}\n`);
-        else deps.stdout.write(`noted on job ${id}\n`);
-      } catch (error) {
-        if (!(error instanceof UnreachableError)) throw error;
-        enqueue(deps.env, {
-          clientId,
-          server: api.server,
-          method: 'POST',
-          path: jobNotesPath(id),
-          body: { note },
-          summary: `note on job ${id}`,
-        });
-        deps.stderr.write(`${theme.warn('server unreachable')}: note queued; \`vanbay sync\` sends it\n`);
-        if (options.json) deps.stdout.write(`${JSON.stringify({ queued: true, jobId: id, clientId })}\n`);
-      }
-    });
-
-  return job;
+    deps.stderr.write(`${theme.warn('server unreachable')}: note queued; \`vanbay sync\` sends it\n`);
+    if (options.json) deps.stdout.write(`${JSON.stringify({ queued: true, jobId: id, clientId })}\n`);
+  }
 }

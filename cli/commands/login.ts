@@ -1,4 +1,4 @@
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { z } from 'zod';
 import { SIGN_IN_PATH, SignInResponseSchema } from '../../shared/api/auth';
 import { createApi } from '../lib/api';
@@ -42,19 +42,12 @@ export async function runLogin(deps: CliDeps, options: z.infer<typeof OptionsSch
   return { server: api.server, user: session.user };
 }
 
-export function loginCommand(deps: CliDeps) {
-  return new Command('login')
-    .description('sign in to a Vanbay server; the session is kept for later commands')
-    .option('--email <email>', 'your sign-in e-mail (asked for when missing)')
-    .option('--password <password>', 'your password (asked for when missing, without echo)')
-    .option('--json', 'print the result as JSON')
-    .action(async (raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runLogin(deps, options);
-      if (options.json) deps.stdout.write(`${JSON.stringify(result)}\n`);
-      else
-        deps.stdout.write(
-          `${theme.pass('signed in')}  ${result.user.name} (${result.user.role}) at ${result.server}\n`,
-        );
-    });
+export async function loginAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runLogin(deps, options);
+  if (options.json) deps.stdout.write(`${JSON.stringify(result)}\n`);
+  else
+    deps.stdout.write(
+      `${theme.pass('signed in')}  ${result.user.name} (${result.user.role}) at ${result.server}\n`,
+    );
 }

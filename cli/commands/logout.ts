@@ -1,4 +1,4 @@
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { z } from 'zod';
 import { SIGN_OUT_PATH } from '../../shared/api/auth';
 import { createApi, UnreachableError } from '../lib/api';
@@ -30,19 +30,14 @@ export async function runLogout(deps: CliDeps, serverFlag: string | undefined) {
   return { server: api.server, signedOut: forgotten, revokedOnServer: revoked };
 }
 
-export function logoutCommand(deps: CliDeps) {
-  return new Command('logout')
-    .description('sign out of the server and forget the session')
-    .option('--json', 'print the result as JSON')
-    .action(async (raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runLogout(deps, options.server);
-      if (options.json) deps.stdout.write(`${JSON.stringify(result)}\n`);
-      else
-        deps.stdout.write(
-          result.signedOut
-            ? `${theme.pass('signed out')}  ${result.server}\n`
-            : `not signed in at ${result.server}\n`,
-        );
-    });
+export async function logoutAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runLogout(deps, options.server);
+  if (options.json) deps.stdout.write(`${JSON.stringify(result)}\n`);
+  else
+    deps.stdout.write(
+      result.signedOut
+        ? `${theme.pass('signed out')}  ${result.server}\n`
+        : `not signed in at ${result.server}\n`,
+    );
 }

@@ -1,4 +1,4 @@
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { z } from 'zod';
 import { QUANTITIES, type Quantity } from '../../shared/api/readings';
 import { readingToCanonical, UnitError } from '../../shared/units';
@@ -75,33 +75,28 @@ export async function runReadingAdd(
   }
 }
 
-export function readingCommand(deps: CliDeps) {
-  const reading = new Command('reading').description('measurements on a job');
-  reading
-    .command('add')
-    .description('record a reading, e.g. `vanbay reading add 12 pressure 43psi`; queued when offline')
-    .argument('<job>', 'job number')
-    .argument('<quantity>', QUANTITIES.join(', '))
-    .argument('<value>', 'the value with its unit as read: 43psi, 3bar, 12.4V, 250mL')
-    .option('--note <text>', 'a note to keep with it')
-    .option('--json', 'print the result as JSON')
-    .action(async (job: string, quantity: string, value: string, raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runReadingAdd(deps, { job, quantity, value }, options);
-      if (result.queued) {
-        deps.stderr.write(`${theme.warn('server unreachable')}: reading queued; \`vanbay sync\` sends it\n`);
-      }
-      if (options.json) {
-        deps.stdout.write(
-          `${JSON.stringify(result.queued ? { queued: true, clientId: result.clientId, ...result.reading } : { queued: false, ...result.reading })}\n`,
-        );
-        return;
-      }
-      if (result.queued) return;
-      const judged = result.reading.judgement;
-      const verdict = judged ? `  ${theme[judged.verdict](judged.verdict.toUpperCase())}` : '';
-      deps.stdout.write(`reading ${result.reading.id}: ${result.reading.quantity} ${value}${verdict}\n`);
-      if (judged) deps.stdout.write(`${theme.muted(judged.reason)}\n`);
-    });
-  return reading;
+export async function readingAddAction(
+  deps: CliDeps,
+  job: string,
+  quantity: string,
+  value: string,
+  raw: unknown,
+  command: Command,
+) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runReadingAdd(deps, { job, quantity, value }, options);
+  if (result.queued) {
+    deps.stderr.write(`${theme.warn('server unreachable')}: reading queued; \`vanbay sync\` sends it\n`);
+  }
+  if (options.json) {
+    deps.stdout.write(
+      `${JSON.stringify(result.queued ? { queued: true, clientId: result.clientId, ...result.reading } : { queued: false, ...result.reading })}\n`,
+    );
+    return;
+  }
+  if (result.queued) return;
+  const judged = result.reading.judgement;
+  const verdict = judged ? `  ${theme[judged.verdict](judged.verdict.toUpperCase())}` : '';
+  deps.stdout.write(`reading ${result.reading.id}: ${result.reading.quantity} ${value}${verdict}\n`);
+  if (judged) deps.stdout.write(`${theme.muted(judged.reason)}\n`);
 }

@@ -5,7 +5,7 @@
  */
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { format } from 'date-fns';
 import { z } from 'zod';
 import { TripListSchema, TripSchema, TRIPS_PATH, tripPath, type Trip } from '../../shared/api/trips';
@@ -148,104 +148,81 @@ const AddSchema = StartSchema.extend({
   date: z.string().optional(),
 });
 
-export function tripCommand(deps: CliDeps) {
-  const trip = new Command('trip').description("the van's mileage log: start, end, add, list");
-  const sub = (name: string, description: string) =>
-    trip.command(name).description(description).option('--json', 'print the result as JSON');
-  const print = (options: { json?: boolean }, value: unknown, line: string) =>
-    deps.stdout.write(options.json ? `${JSON.stringify(value)}\n` : `${line}\n`);
+function print(deps: CliDeps, options: { json?: boolean }, value: unknown, line: string) {
+  deps.stdout.write(options.json ? `${JSON.stringify(value)}\n` : `${line}\n`);
+}
 
-  sub('start', 'start a trip at the odometer now: --odometer N --to PLACE --purpose WHY [--job J]')
-    .option('--odometer <n>', "the van's odometer now")
-    .requiredOption('--to <place>', 'destination')
-    .requiredOption('--purpose <why>', 'business purpose')
-    .option('--from <place>', 'where from')
-    .option('--job <id>', 'the job the trip is for')
-    .option('--km', 'the odometer counts kilometres')
-    .action(async (raw: unknown, command: Command) => {
-      const options = StartSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runTripStart(deps, options);
-      print(
-        options,
-        { started: true, id: result.trip?.id ?? null, clientId: result.clientId },
-        `trip started at ${String(result.body.startOdometer)}`,
-      );
-    });
+export async function tripStartAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = StartSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runTripStart(deps, options);
+  print(
+    deps,
+    options,
+    { started: true, id: result.trip?.id ?? null, clientId: result.clientId },
+    `trip started at ${String(result.body.startOdometer)}`,
+  );
+}
 
-  sub('end', 'end the trip under way: --odometer N')
-    .option('--odometer <n>', "the van's odometer now")
-    .action(async (raw: { odometer?: string }, command: Command) => {
-      const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const result = await runTripEnd(deps, { ...options, odometer: raw.odometer });
-      print(
-        options,
-        { ...(result.trip ?? {}), queued: result.queued },
-        result.trip
-          ? `trip ${result.trip.id}: ${result.trip.miles ?? result.distance} mi`
-          : `trip ended: ${result.distance} on the odometer`,
-      );
-    });
+export async function tripEndAction(deps: CliDeps, raw: { odometer?: string }, command: Command) {
+  const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const result = await runTripEnd(deps, { ...options, odometer: raw.odometer });
+  print(
+    deps,
+    options,
+    { ...(result.trip ?? {}), queued: result.queued },
+    result.trip
+      ? `trip ${result.trip.id}: ${result.trip.miles ?? result.distance} mi`
+      : `trip ended: ${result.distance} on the odometer`,
+  );
+}
 
-  sub('add', 'log a trip after the fact: --start N --end N --to PLACE --purpose WHY [--date D]')
-    .requiredOption('--start <n>', 'odometer at the start')
-    .requiredOption('--end <n>', 'odometer at the end')
-    .requiredOption('--to <place>', 'destination')
-    .requiredOption('--purpose <why>', 'business purpose')
-    .option('--date <yyyy-mm-dd>', 'the day of the trip (default today)')
-    .option('--from <place>', 'where from')
-    .option('--job <id>', 'the job the trip was for')
-    .option('--km', 'the odometer counts kilometres')
-    .action(async (raw: unknown, command: Command) => {
-      const options = AddSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const startAt = odometer(options.start, '--start');
-      const endAt = odometer(options.end, '--end');
-      if (endAt < startAt) throw new UsageError('--end must be at least --start');
-      if (options.date && !/^\d{4}-\d{2}-\d{2}$/.test(options.date))
-        throw new UsageError('--date must be YYYY-MM-DD');
-      const api = createApi(deps, options.server);
-      const body = {
-        startOdometer: startAt,
-        endOdometer: endAt,
-        destination: options.to,
-        purpose: options.purpose,
-        tripDate: options.date ?? format(new Date(), 'yyyy-MM-dd'),
-        ...(options.from ? { origin: options.from } : {}),
-        ...(options.job ? { jobId: Number(options.job) } : {}),
-        ...(options.km ? { odometerUnit: 'km' } : {}),
-      };
-      const result = await sendOrQueue(
-        deps,
-        api,
-        'POST',
-        TRIPS_PATH,
-        body,
-        newClientId(),
-        `trip to ${options.to}`,
-      );
-      print(
-        options,
-        { ...(result.trip ?? {}), queued: result.queued },
-        result.trip ? `trip ${result.trip.id}: ${result.trip.miles} mi` : 'trip queued',
-      );
-    });
+export async function tripAddAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = AddSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const startAt = odometer(options.start, '--start');
+  const endAt = odometer(options.end, '--end');
+  if (endAt < startAt) throw new UsageError('--end must be at least --start');
+  if (options.date && !/^\d{4}-\d{2}-\d{2}$/.test(options.date))
+    throw new UsageError('--date must be YYYY-MM-DD');
+  const api = createApi(deps, options.server);
+  const body = {
+    startOdometer: startAt,
+    endOdometer: endAt,
+    destination: options.to,
+    purpose: options.purpose,
+    tripDate: options.date ?? format(new Date(), 'yyyy-MM-dd'),
+    ...(options.from ? { origin: options.from } : {}),
+    ...(options.job ? { jobId: Number(options.job) } : {}),
+    ...(options.km ? { odometerUnit: 'km' } : {}),
+  };
+  const result = await sendOrQueue(
+    deps,
+    api,
+    'POST',
+    TRIPS_PATH,
+    body,
+    newClientId(),
+    `trip to ${options.to}`,
+  );
+  print(
+    deps,
+    options,
+    { ...(result.trip ?? {}), queued: result.queued },
+    result.trip ? `trip ${result.trip.id}: ${result.trip.miles} mi` : 'trip queued',
+  );
+}
 
-  sub('list', 'trips, newest first')
-    .option('--from <yyyy-mm-dd>', 'on or after')
-    .option('--to <yyyy-mm-dd>', 'on or before')
-    .action(async (raw: { from?: string; to?: string }, command: Command) => {
-      const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const page = await createApi(deps, options.server).request('GET', TRIPS_PATH, TripListSchema, {
-        query: { from: raw.from, to: raw.to, limit: 100 },
-      });
-      if (options.json) {
-        deps.stdout.write(`${JSON.stringify(page.items)}\n`);
-        return;
-      }
-      for (const t of page.items) {
-        deps.stdout.write(
-          `${t.tripDate}  ${String(t.miles ?? '…').padStart(8)} mi  ${t.destination} — ${t.purpose}\n`,
-        );
-      }
-    });
-  return trip;
+export async function tripListAction(deps: CliDeps, raw: { from?: string; to?: string }, command: Command) {
+  const options = GlobalSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const page = await createApi(deps, options.server).request('GET', TRIPS_PATH, TripListSchema, {
+    query: { from: raw.from, to: raw.to, limit: 100 },
+  });
+  if (options.json) {
+    deps.stdout.write(`${JSON.stringify(page.items)}\n`);
+    return;
+  }
+  for (const t of page.items) {
+    deps.stdout.write(
+      `${t.tripDate}  ${String(t.miles ?? '…').padStart(8)} mi  ${t.destination} — ${t.purpose}\n`,
+    );
+  }
 }

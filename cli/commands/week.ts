@@ -1,4 +1,4 @@
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { format, startOfWeek } from 'date-fns';
 import { z } from 'zod';
 import { createApi } from '../lib/api';
@@ -26,6 +26,8 @@ const WeekSummarySchema = z
     deductionCents: z.number().nullable(),
     checks: z.object({ pass: z.number(), warn: z.number(), fail: z.number() }).loose(),
     machinesDue: z.array(z.object({}).loose()),
+    /** All of them; machinesDue lists only the most urgent. A server without it listed them all. */
+    machinesDueTotal: z.number().optional(),
   })
   .loose();
 
@@ -36,37 +38,30 @@ export function thisWeeksMonday(now: Date): string {
   return format(startOfWeek(now, { weekStartsOn: 1 }), 'yyyy-MM-dd');
 }
 
-export function weekCommand(deps: CliDeps) {
-  return new Command('week')
-    .description("the week's summary: jobs, hours, revenue, unpaid, miles, checks, machines due")
-    .option('--start <date>', 'first day of the week, YYYY-MM-DD (default: this Monday)')
-    .option('--json', 'print the same object as GET /api/reports/week')
-    .action(async (raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const start = options.start ?? thisWeeksMonday(new Date());
-      if (!/^\d{4}-\d{2}-\d{2}$/.test(start))
-        throw new UsageError(`--start must be YYYY-MM-DD, got "${start}"`);
-      const api = createApi(deps, options.server);
-      const report = await api.request('GET', '/api/reports/week', z.unknown(), { query: { start } });
-      if (options.json) {
-        deps.stdout.write(`${JSON.stringify(report)}\n`);
-        return;
-      }
-      const week = WeekSummarySchema.parse(report);
-      const rows: [string, string][] = [
-        ['Jobs done', String(week.jobsDone)],
-        ['Hours billed', week.hoursBilled.toFixed(1)],
-        ['Revenue', money(week.revenueCents)],
-        ['Unpaid', `${week.unpaid.count} · ${money(week.unpaid.balanceCents)}`],
-        ['Overdue', `${week.overdue.count} · ${money(week.overdue.balanceCents)}`],
-        ['Miles', `${week.miles.toFixed(1)} · deduction ${money(week.deductionCents)}`],
-        [
-          'Checks',
-          `${theme.pass(`${week.checks.pass} pass`)} ${theme.warn(`${week.checks.warn} warn`)} ${theme.fail(`${week.checks.fail} fail`)}`,
-        ],
-        ['Machines due', String(week.machinesDue.length)],
-      ];
-      deps.stdout.write(`${theme.strong(`Week of ${week.start}`)}\n`);
-      for (const [label, value] of rows) deps.stdout.write(`  ${label.padEnd(14)} ${value}\n`);
-    });
+export async function weekAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const start = options.start ?? thisWeeksMonday(new Date());
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(start)) throw new UsageError(`--start must be YYYY-MM-DD, got "${start}"`);
+  const api = createApi(deps, options.server);
+  const report = await api.request('GET', '/api/reports/week', z.unknown(), { query: { start } });
+  if (options.json) {
+    deps.stdout.write(`${JSON.stringify(report)}\n`);
+    return;
+  }
+  const week = WeekSummarySchema.parse(report);
+  const rows: [string, string][] = [
+    ['Jobs done', String(week.jobsDone)],
+    ['Hours billed', week.hoursBilled.toFixed(1)],
+    ['Revenue', money(week.revenueCents)],
+    ['Unpaid', `${week.unpaid.count} · ${money(week.unpaid.balanceCents)}`],
+    ['Overdue', `${week.overdue.count} · ${money(week.overdue.balanceCents)}`],
+    ['Miles', `${week.miles.toFixed(1)} · deduction ${money(week.deductionCents)}`],
+    [
+      'Checks',
+      `${theme.pass(`${week.checks.pass} pass`)} ${theme.warn(`${week.checks.warn} warn`)} ${theme.fail(`${week.checks.fail} fail`)}`,
+    ],
+    ['Machines due', String(week.machinesDueTotal ?? week.machinesDue.length)],
+  ];
+  deps.stdout.write(`${theme.strong(`Week of ${week.start}`)}\n`);
+  for (const [label, value] of rows) deps.stdout.write(`  ${label.padEnd(14)} ${value}\n`);
 }

@@ -1,4 +1,4 @@
-import { Command } from 'commander';
+import type { Command } from 'commander';
 import { z } from 'zod';
 import { ME_PATH, MeResponseSchema } from '../../shared/api/auth';
 import { createApi } from '../lib/api';
@@ -13,15 +13,10 @@ export async function runWhoami(deps: CliDeps, serverFlag: string | undefined) {
   return { server: api.server, user };
 }
 
-export function whoamiCommand(deps: CliDeps) {
-  return new Command('whoami')
-    .description('show who you are signed in as')
-    .option('--json', 'print the result as JSON')
-    .action(async (raw: unknown, command: Command) => {
-      const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
-      const { server, user } = await runWhoami(deps, options.server);
-      // The user's fields at the top (id, email, role, name) and nested as /api/auth/me has them.
-      if (options.json) deps.stdout.write(`${JSON.stringify({ ...user, server, user })}\n`);
-      else deps.stdout.write(`${user.name} <${user.email}>  ${user.role}  at ${server}\n`);
-    });
+export async function whoamiAction(deps: CliDeps, raw: unknown, command: Command) {
+  const options = OptionsSchema.parse({ ...command.optsWithGlobals(), ...(raw as object) });
+  const { server, user } = await runWhoami(deps, options.server);
+  // The user's fields at the top (id, email, role, name) and nested as /api/auth/me has them.
+  if (options.json) deps.stdout.write(`${JSON.stringify({ ...user, server, user })}\n`);
+  else deps.stdout.write(`${user.name} <${user.email}>  ${user.role}  at ${server}\n`);
 }

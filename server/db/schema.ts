@@ -289,6 +289,8 @@ export const checkRuns = pgTable(
   (t) => [
     index('check_runs_job_idx').on(t.jobId),
     index('check_runs_business_started_idx').on(t.businessId, t.startedAt),
+    // The week report counts the checks finished in a week.
+    index('check_runs_business_finished_idx').on(t.businessId, t.finishedAt),
     uniqueIndex('check_runs_client_id_key').on(t.businessId, t.clientId),
   ],
 );
@@ -455,6 +457,10 @@ export const invoices = pgTable(
     uniqueIndex('invoices_business_number_key').on(t.businessId, t.number),
     index('invoices_business_issued_idx').on(t.businessId, t.issuedOn),
     index('invoices_business_status_due_idx').on(t.businessId, t.status, t.dueOn),
+    // Only the open few, not years of paid invoices: the week report's unpaid as it stood.
+    index('invoices_business_open_idx')
+      .on(t.businessId, t.issuedOn)
+      .where(sql`${t.balanceCents} > 0`),
     index('invoices_customer_idx').on(t.customerId),
     index('invoices_job_idx').on(t.jobId),
     check('invoices_balance_check', sql`${t.balanceCents} = ${t.totalCents} - ${t.paidCents}`),

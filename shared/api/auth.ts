@@ -1,12 +1,7 @@
 import { z } from 'zod';
 import { RoleSchema } from './users';
 
-export const SIGN_IN_PATH = '/api/auth/sign-in';
-export const SIGN_OUT_PATH = '/api/auth/sign-out';
-export const ME_PATH = '/api/auth/me';
-export const PASSWORD_PATH = '/api/auth/password';
-/** The browser's session cookie: httpOnly, SameSite=Strict. */
-export const SESSION_COOKIE = 'vanbay_session';
+export { ME_PATH, PASSWORD_PATH, SESSION_COOKIE, SIGN_IN_PATH, SIGN_OUT_PATH } from './auth-paths';
 
 export const SignInInputSchema = z.strictObject({
   email: z.string().trim().min(3).max(254),
@@ -28,6 +23,9 @@ export const SignInResponseSchema = z.object({ token: z.string(), user: SessionU
 export type SignInResponse = z.infer<typeof SignInResponseSchema>;
 
 export const MeResponseSchema = z.object({ user: SessionUserSchema });
+
+/** Sign-out answers 204 with no body. */
+export const SignOutResponseSchema = z.undefined();
 
 /**
  * Length is what resists guessing: NIST SP 800-63B asks at least 8 characters and no composition

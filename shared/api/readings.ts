@@ -1,36 +1,10 @@
 import { z } from 'zod';
+import { QUANTITIES } from '../quantities';
 import { IdSchema, IsoDateTimeSchema, ListQuerySchema, listResponseSchema, optionalText } from './common';
 
-/** What the mechanic measures (CONTRACT.md, `vanbay reading add`), plus the few the checks need. */
-export const QUANTITIES = [
-  'pressure',
-  'voltage',
-  'flow',
-  'compression',
-  'afr',
-  'resistance',
-  'duration',
-  'volume',
-  'temperature',
-] as const;
+// The list and the canonical units live in a zod-free module (the CLI's `calc` loads it alone).
+export { CANONICAL_UNITS, QUANTITIES, type Quantity } from '../quantities';
 export const QuantitySchema = z.enum(QUANTITIES);
-export type Quantity = z.infer<typeof QuantitySchema>;
-
-/**
- * The unit each quantity is stored in. Readings keep the unit the mechanic typed beside the
- * canonical value, so it can be shown back as entered.
- */
-export const CANONICAL_UNITS = {
-  pressure: 'kPa',
-  voltage: 'V',
-  flow: 'L/h',
-  compression: 'kPa',
-  afr: 'ratio',
-  resistance: 'ohm',
-  duration: 's',
-  volume: 'mL',
-  temperature: 'C',
-} as const satisfies Record<Quantity, string>;
 
 export const VERDICTS = ['pass', 'warn', 'fail'] as const;
 export const VerdictSchema = z.enum(VERDICTS);

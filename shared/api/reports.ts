@@ -5,6 +5,9 @@ import { MeterUnitSchema } from './machines';
 
 export const WEEK_REPORT_PATH = '/api/reports/week';
 
+/** How many of the machines coming due a week report lists; machinesDueTotal counts them all. */
+export const MACHINES_DUE_LISTED = 20;
+
 export const WeekReportQuerySchema = z.object({
   /** The first of the seven days, on the business's calendar; any weekday may start a week. */
   start: IsoDateSchema,
@@ -80,8 +83,15 @@ export const WeekReportSchema = z.object({
     .describe('Guided checks finished in the week (finishedAt in the week), counted by verdict'),
   machinesDue: z
     .array(MachineDueSchema)
+    .max(MACHINES_DUE_LISTED)
     .describe(
-      'Service intervals due soon, due or overdue on the end day (the shared service-interval evaluator, with the machine’s meter reading as last recorded before the week’s end); most urgent first',
+      'The most urgent service intervals due soon, due or overdue on the end day (the shared service-interval evaluator, with the machine’s meter reading as last recorded before the week’s end), at most 20: by status (overdue, due, due soon), then the months limit’s date (none last), then machine id and interval id',
+    ),
+  machinesDueTotal: z
+    .number()
+    .int()
+    .describe(
+      'How many service intervals are due soon, due or overdue on the end day in all, listed or not; the reminders list has every one',
     ),
 });
 export type WeekReport = z.infer<typeof WeekReportSchema>;

@@ -1,5 +1,13 @@
 import type { z } from 'zod';
-import { ErrorBodySchema } from '../../shared/api/errors';
+
+/**
+ * A schema, or a function that imports one. The frame's few requests (who is signed in, sign-in,
+ * sign-out) pass the function, so zod is not part of the first load: it is fetched beside the
+ * first request and is there when the answer is. Pages import their schemas directly.
+ */
+export type SchemaSource<Schema extends z.ZodType> = Schema | (() => Promise<Schema>);
+
+const loadErrorBodySchema = () => import('../../shared/api/errors').then((m) => m.ErrorBodySchema);
 
 /**
  * Codes the client itself assigns when there is no usable error body to read one from. Server codes
@@ -35,9 +43,13 @@ export class ApiError extends Error {
  */
 export async function request<Schema extends z.ZodType>(
   path: string,
-  schema: Schema,
+  schema: SchemaSource<Schema>,
   init: RequestInit = {},
 ): Promise<z.output<Schema>> {
+  // Started with the request, not after it, so a schema still to be fetched costs no extra wait.
+  const schemas = Promise.all([typeof schema === 'function' ? schema() : schema, loadErrorBodySchema()]);
+  // Awaited only once the answer is in; a request that fails first must not leave it unhandled.
+  void schemas.catch(() => undefined);
   const headers = new Headers(init.headers);
   if (!headers.has('Accept')) headers.set('Accept', 'application/json');
 
@@ -53,6 +65,7 @@ export async function request<Schema extends z.ZodType>(
   }
 
   const body = await readJson(response);
+  const [answerSchema, ErrorBodySchema] = await schemas;
 
   if (!response.ok) {
     const parsed = ErrorBodySchema.safeParse(body.ok ? body.value : undefined);
@@ -67,7 +80,7 @@ export async function request<Schema extends z.ZodType>(
     );
   }
 
-  const parsed = schema.safeParse(body.ok ? body.value : undefined);
+  const parsed = answerSchema.safeParse(body.ok ? body.value : undefined);
   if (!parsed.success) {
     throw new ApiError(
       response.status,

@@ -44,10 +44,15 @@ describe('jobs in Chromium', () => {
 
     await page.getByLabel('Status').selectOption('paid');
     await page.waitForURL(/status=paid/);
-    await page.getByText(/All \d+ jobs? shown|jobs? loaded/).waitFor();
-    const statuses = await table.locator('tbody tr td:nth-child(2)').allInnerTexts();
-    expect(statuses.length).toBeGreaterThan(0);
-    expect(new Set(statuses.map((s) => s.replace(/[^a-z ]/g, '').trim()))).toEqual(new Set(['paid']));
+    // The address changes a moment before the table swaps to the filtered query, so the old rows (or
+    // the loading line) can still be on screen: wait until the rows shown are the filtered ones.
+    await expect
+      .poll(async () => {
+        await page.getByText(/All \d+ jobs? shown|jobs? loaded/).waitFor();
+        const statuses = await table.locator('tbody tr td:nth-child(2)').allInnerTexts();
+        return [...new Set(statuses.map((s) => s.replace(/[^a-z ]/g, '').trim()))];
+      })
+      .toEqual(['paid']);
   });
 
   it('books a job, adds a reading, edits a line with the totals following, and uploads a photo', async () => {

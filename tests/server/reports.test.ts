@@ -1,10 +1,12 @@
 import Decimal from 'decimal.js';
-import { sql } from 'drizzle-orm';
+import { eq, isNull, sql } from 'drizzle-orm';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { queryRows } from '../../server/db/client';
-import { startOfDayIn } from '../../server/services/invoices';
-import { WeekReportSchema, type WeekReport } from '../../shared/api/reports';
+import * as t from '../../server/db/schema';
+import { addCalendarDays, startOfDayIn } from '../../server/services/invoices';
+import { MACHINES_DUE_LISTED, WeekReportSchema, type WeekReport } from '../../shared/api/reports';
+import { evaluateServiceInterval } from '../../shared/evaluators/service-interval';
 import { as, seededApi, type TestApi } from '../helpers/api';
 import { freshInvoice } from './access/money';
 
@@ -132,6 +134,9 @@ describe('the week report on the seeded week of 2026-11-09', () => {
     const statuses = report.machinesDue.map((m) => m.status);
     const rank = { due_soon: 1, due: 2, overdue: 3 } as const;
     expect([...statuses].sort((a, b) => rank[b] - rank[a])).toEqual(statuses);
+    // The demo seed has fewer than the 20 a report lists: every one is listed and counted.
+    expect(report.machinesDue.length).toBeLessThan(MACHINES_DUE_LISTED);
+    expect(report.machinesDueTotal).toBe(report.machinesDue.length);
     // Hand arithmetic from the seed: the Quillback 650's fuel filter was last done 2025-10-10,
     // every 12 months → due 2026-10-10, so overdue on 2026-11-15.
     expect(report.machinesDue).toContainEqual(
@@ -184,6 +189,39 @@ describe('the week report as things change', () => {
     expect(thisWeek.collectedCents).toBeGreaterThanOrEqual(seeded.balance);
   });
 
+  it('keeps a past week’s unpaid as it was when an invoice is voided or refunded after the week', async () => {
+    // Two changes made today (2026-11-18) to invoices of the week of 11-09: one issued that week and
+    // still unpaid is voided (a void keeps its balance, so it stays open to that week), and one paid
+    // in full that week is partly refunded (open again today, but paid at that week's end).
+    const unpaidThen = await one<{ id: number }>(
+      sql`select id from invoices where status = 'issued' and paid_cents = 0 and number <> 34
+          and issued_on between '2026-11-09' and '2026-11-15' order by number limit 1`,
+    );
+    const paidInWeek = await one<{ id: number }>(
+      sql`select i.id from invoices i join payments p on p.invoice_id = i.id
+          where i.status = 'paid' and (p.received_at at time zone ${TZ})::date between '2026-11-09' and '2026-11-15'
+          order by i.number limit 1`,
+    );
+    await request(api.app)
+      .patch(`/api/invoices/${unpaidThen.id}`)
+      .set(as(api, 'owner'))
+      .send({ status: 'void' })
+      .expect(200);
+    await request(api.app)
+      .post(`/api/invoices/${paidInWeek.id}/payments`)
+      .set(as(api, 'owner'))
+      .send({ method: 'card', amountCents: -5_000 })
+      .expect(201);
+    // Still the hand count of the seeded week above: 8 invoices, 170 979 ¢.
+    expect((await week('2026-11-09')).unpaid).toEqual({ count: 8, balanceCents: 170_979 });
+    // This week ends after both: the void is gone, the refunded balance is open, as today.
+    const open = await one<{ count: number; cents: number }>(
+      sql`select count(*)::int as count, sum(balance_cents)::int as cents from invoices
+          where status <> 'void' and balance_cents > 0`,
+    );
+    expect((await week('2026-11-16')).unpaid).toEqual({ count: open.count, balanceCents: open.cents });
+  });
+
   it('leaves void invoices out of revenue and nets refunds out of collections', async () => {
     const before = await week('2026-11-16');
     const kept = await freshInvoice(api);
@@ -232,5 +270,178 @@ describe('the week report as things change', () => {
     }
     await request(api.app).get('/api/reports/week?start=2026-11-09').set(as(api, 'helper')).expect(403);
     await request(api.app).get('/api/reports/week?start=2026-11-09').set(as(api, 'customer')).expect(403);
+  });
+});
+
+describe('the machines coming due at scale and at their limits', () => {
+  type Interval = typeof t.serviceIntervals.$inferInsert;
+  type Machine = typeof t.machines.$inferInsert;
+
+  /**
+   * Every interval judged one by one by the shared evaluator (the authority the report's SQL
+   * mirrors, itself checked against its published rules in tests/shared), for the week ending
+   * `end`: machines in use, the meter as read before the week's end, refused values left out;
+   * then ordered as WeekReportSchema says.
+   */
+  async function judgedByEvaluator(end: string, until: Date) {
+    const rows = await db()
+      .select({ interval: t.serviceIntervals, machine: t.machines })
+      .from(t.serviceIntervals)
+      .innerJoin(t.machines, eq(t.machines.id, t.serviceIntervals.machineId))
+      .where(isNull(t.machines.archivedAt));
+    const rank = { ok: 0, due_soon: 1, due: 2, overdue: 3 } as const;
+    const due = [];
+    for (const { interval, machine } of rows) {
+      if (interval.lastDoneOn === null) continue;
+      let status;
+      let dueOn;
+      try {
+        ({ status, dueOn } = evaluateServiceInterval({
+          ...interval,
+          lastDoneOn: interval.lastDoneOn,
+          meterUnit: machine.meterUnit,
+          currentMeter:
+            machine.meterReadAt === null || machine.meterReadAt < until ? machine.meterReading : null,
+          today: end,
+        }).figures);
+      } catch (error) {
+        if (error instanceof RangeError) continue;
+        throw error;
+      }
+      if (status !== 'ok') due.push({ id: interval.id, machineId: machine.id, status, dueOn });
+    }
+    return due.sort(
+      (a, b) =>
+        rank[b.status] - rank[a.status] ||
+        (a.dueOn ?? '9999-12-31').localeCompare(b.dueOn ?? '9999-12-31') ||
+        a.machineId - b.machineId ||
+        a.id - b.id,
+    );
+  }
+
+  beforeAll(async () => {
+    const [customer] = await db().select().from(t.customers).limit(1);
+    const businessId = customer!.businessId;
+    const machine = async (values: Partial<Machine>) => {
+      const [row] = await db()
+        .insert(t.machines)
+        .values({
+          businessId,
+          customerId: customer!.id,
+          kind: 'atv',
+          make: 'Tamarack',
+          model: 'Test 450',
+          meterUnit: 'mi',
+          ...values,
+        })
+        .returning();
+      return row!.id;
+    };
+    const interval = (machineId: number, values: Partial<Interval>): Interval => ({
+      businessId,
+      machineId,
+      item: 'fuel_filter',
+      label: 'Fuel filter',
+      ...values,
+    });
+    const byDate = await machine({ model: 'Dates 450' });
+    const byMiles = await machine({ model: 'Miles 450', meterReading: 1100.1 });
+    const byHours = await machine({ model: 'Hours 450', meterUnit: 'h', meterReading: 140.3 });
+    // Typed readings whose binary sums miss the decimal one: 100.7 + 100.1 − 190.79 is
+    // 10.010000000000019 in IEEE 754 doubles, 250.7 + 100.1 − 350.8 is −5.7e−14 (checked with
+    // Node's own arithmetic); the evaluator strips that noise (clean(), 12 significant digits).
+    const tenthLeft = await machine({ model: 'Tenth 450', meterUnit: 'h', meterReading: 190.79 });
+    const reached = await machine({ model: 'Reached 450', meterUnit: 'h', meterReading: 350.8 });
+    const readLater = await machine({
+      model: 'Read later 450',
+      meterReading: 90_000,
+      // Read on 2026-11-18, after the week of 11-09 ended: that week cannot know it.
+      meterReadAt: new Date('2026-11-18T16:00:00Z'),
+    });
+    const archived = await machine({ model: 'Sold 450', archivedAt: new Date('2026-06-01T00:00:00Z') });
+    const broken = await machine({ model: 'Broken 450', meterReading: -5 });
+    await db()
+      .insert(t.serviceIntervals)
+      .values([
+        // 25 long overdue, a day apart: more than the 20 a report lists.
+        ...Array.from({ length: 25 }, (_, i) =>
+          interval(byDate, { everyMonths: 12, lastDoneOn: `2019-03-${String(i + 1).padStart(2, '0')}` }),
+        ),
+        // Calendar-month arithmetic at its edges (date-fns addMonths and PostgreSQL's month
+        // interval both keep the day, or take the month's last day when it has none):
+        interval(byDate, { everyMonths: 1, lastDoneOn: '2026-10-15' }), // due 11-15: due that week
+        interval(byDate, { everyMonths: 6, lastDoneOn: '2026-05-31' }), // due 11-30 (no 31st)
+        interval(byDate, { everyMonths: 1, lastDoneOn: '2026-10-30' }), // due 11-30
+        interval(byDate, { everyMonths: 3, lastDoneOn: '2026-09-15' }), // due 12-15: 30 days off
+        interval(byDate, { everyMonths: 3, lastDoneOn: '2026-09-16' }), // due 12-16: 31 days off
+        // 12 months (365 days): due soon 36.5 days off, so on day 36 and not day 37.
+        interval(byDate, { everyMonths: 12, lastDoneOn: '2025-12-21' }), // due 2026-12-21: 36 days
+        interval(byDate, { everyMonths: 12, lastDoneOn: '2025-12-22' }), // due 2026-12-22: 37 days
+        // 1 000 mi (1 609.344 km) from 100.1 mi: exactly reached at 1 100.1 mi, float noise aside.
+        interval(byMiles, { everyKm: 1609.344, lastDoneOn: '2026-01-10', lastDoneMeter: 100.1 }),
+        // 100 h from 50.3 h, at 140.3 h: exactly the last tenth left, so due soon.
+        interval(byHours, { everyHours: 100, lastDoneOn: '2026-01-10', lastDoneMeter: 50.3 }),
+        // 100 h from 50.2 h, at 140.3 h: 9.9 h left, due soon; from 30.3 h, 10 h past: overdue.
+        interval(byHours, { everyHours: 100, lastDoneOn: '2026-01-10', lastDoneMeter: 50.2 }),
+        interval(byHours, { everyHours: 100, lastDoneOn: '2026-01-10', lastDoneMeter: 30.3 }),
+        interval(tenthLeft, { everyHours: 100.1, lastDoneOn: '2026-01-10', lastDoneMeter: 100.7 }),
+        interval(reached, { everyHours: 100.1, lastDoneOn: '2026-01-10', lastDoneMeter: 250.7 }),
+        interval(readLater, { everyKm: 10_000, lastDoneOn: '2026-06-01', lastDoneMeter: 100 }),
+        interval(archived, { everyMonths: 12, lastDoneOn: '2019-01-01' }),
+        // A negative meter the evaluator refuses: not judged, not counted.
+        interval(broken, { everyKm: 5_000, lastDoneOn: '2026-06-01', lastDoneMeter: 0 }),
+        interval(byDate, { everyMonths: 12, lastDoneOn: null }),
+      ]);
+  });
+
+  for (const start of ['2026-11-09', '2026-11-16', '2026-11-24']) {
+    it(`lists the 20 the evaluator ranks first and counts all it finds due, week of ${start}`, async () => {
+      const report = await week(start);
+      const until = startOfDayIn(TZ, addCalendarDays(start, 7));
+      const expected = await judgedByEvaluator(report.end, until);
+      expect(expected.length).toBeGreaterThan(MACHINES_DUE_LISTED);
+      expect(report.machinesDueTotal).toBe(expected.length);
+      expect(report.machinesDue.map((m) => m.serviceIntervalId)).toEqual(
+        expected.slice(0, MACHINES_DUE_LISTED).map((m) => m.id),
+      );
+      expect(report.machinesDue.map((m) => m.status)).toEqual(
+        expected.slice(0, MACHINES_DUE_LISTED).map((m) => m.status),
+      );
+    });
+  }
+
+  it('judges the edge cases as their limits say', async () => {
+    // Read from the whole due list the evaluator makes for the week ending 2026-11-15 (hand
+    // arithmetic beside each interval above).
+    const statusOf = async (end: string, where: ReturnType<typeof sql>) => {
+      const [row] = await queryRows<{ id: number }>(
+        db(),
+        sql`select id from service_intervals where ${where}`,
+      );
+      const until = startOfDayIn(TZ, addCalendarDays(end, 1));
+      return (await judgedByEvaluator(end, until)).find((m) => m.id === row!.id)?.status ?? 'ok';
+    };
+    const end = '2026-11-15';
+    expect(await statusOf(end, sql`every_months = 1 and last_done_on = '2026-10-15'`)).toBe('due');
+    expect(await statusOf(end, sql`every_months = 3 and last_done_on = '2026-09-15'`)).toBe('due_soon');
+    expect(await statusOf(end, sql`every_months = 3 and last_done_on = '2026-09-16'`)).toBe('ok');
+    expect(await statusOf(end, sql`every_months = 12 and last_done_on = '2025-12-21'`)).toBe('due_soon');
+    expect(await statusOf(end, sql`every_months = 12 and last_done_on = '2025-12-22'`)).toBe('ok');
+    expect(await statusOf(end, sql`every_km = 1609.344 and last_done_meter = 100.1`)).toBe('due');
+    expect(await statusOf(end, sql`every_hours = 100 and last_done_meter = 50.3`)).toBe('due_soon');
+    expect(await statusOf(end, sql`every_hours = 100 and last_done_meter = 30.3`)).toBe('overdue');
+    // 10.01 h left of 100.1 h is the last tenth exactly: due soon; 0 h left is due, not overdue.
+    expect(await statusOf(end, sql`every_hours = 100.1 and last_done_meter = 100.7`)).toBe('due_soon');
+    expect(await statusOf(end, sql`every_hours = 100.1 and last_done_meter = 250.7`)).toBe('due');
+    expect(await statusOf('2026-11-30', sql`every_months = 6 and last_done_on = '2026-05-31'`)).toBe('due');
+    expect(await statusOf('2026-11-30', sql`every_months = 1 and last_done_on = '2026-10-30'`)).toBe('due');
+    // The meter read after the week of 11-09 is not that week's: by its km limit alone it cannot be
+    // judged then; the next week knows it (90 000 mi, due at 100 + 6 213.7 mi): overdue.
+    const readLater = sql`last_done_meter = 100 and every_km = 10000`;
+    expect(await statusOf('2026-11-15', readLater)).toBe('ok');
+    expect(await statusOf('2026-11-22', readLater)).toBe('overdue');
+    // An archived machine's interval is never listed; a refused value is not judged.
+    expect(await statusOf(end, sql`last_done_on = '2019-01-01'`)).toBe('ok');
+    expect(await statusOf(end, sql`every_km = 5000 and last_done_meter = 0`)).toBe('ok');
   });
 });

@@ -116,6 +116,33 @@ describe('the week page', () => {
     ]);
   });
 
+  it('counts the machines it does not list and links to the whole due list', async () => {
+    // The report lists the most urgent only; 45 due in all, 3 listed: 45 − 3 = 42 more.
+    const report: WeekReport = { ...sampleReport, machinesDueTotal: 45 };
+    ownerWithWeek(() => jsonResponse(200, report));
+    const { router } = await openWeek('/week?start=2026-11-09');
+
+    const heading = await main().findByRole('heading', { name: 'Machines coming due' });
+    const panel = within(heading.parentElement!);
+    expect(panel.getByText(/^45 service items due soon, due or overdue by Nov 15, 2026/)).toBeTruthy();
+    expect(panel.getAllByRole('row')).toHaveLength(1 + 3);
+    const more = panel.getByText(/^and 42 more/);
+    expect(more.textContent).toBe('and 42 more — see Reminders');
+    fireEvent.click(within(more).getByRole('link', { name: 'Reminders' }));
+    // Due soon included, as the count is.
+    await waitFor(() => expect(router.state.location.pathname).toBe('/reminders'));
+    expect(router.state.location.search).toBe('?show=soon');
+  });
+
+  it('says nothing of more when the list is the whole of it', async () => {
+    ownerWithWeek();
+    await openWeek('/week?start=2026-11-09');
+
+    await main().findByRole('heading', { name: 'Machines coming due' });
+    expect(main().queryByText(/more — see/)).toBeNull();
+    expect(main().queryByText(/most urgent first/)).toBeNull();
+  });
+
   it('opens the week a mid-week date falls in, starting Monday', async () => {
     const fetchMock = ownerWithWeek();
     await openWeek('/week?start=2026-11-11');

@@ -82,6 +82,7 @@ export const sampleReport: WeekReport = WeekReportSchema.parse({
   deductionCents: 13_429,
   checks: { pass: 3, warn: 1, fail: 5 },
   machinesDue: sampleMachinesDue,
+  machinesDueTotal: sampleMachinesDue.length,
 } satisfies WeekReport);
 
 /** A week in which nothing happened, with nothing open and nothing due. */
@@ -103,4 +104,5 @@ export const quietReport: WeekReport = WeekReportSchema.parse({
   deductionCents: 0,
   checks: { pass: 0, warn: 0, fail: 0 },
   machinesDue: [],
+  machinesDueTotal: 0,
 } satisfies WeekReport);

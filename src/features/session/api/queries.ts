@@ -1,8 +1,11 @@
-import { queryOptions, useQuery } from '@tanstack/react-query';
-import { ME_PATH, MeResponseSchema } from '../../../../shared/api/auth';
+import { queryOptions, useMutationState, useQuery } from '@tanstack/react-query';
+import { ME_PATH } from '../../../../shared/api/auth-paths';
 import type { SessionUser } from '../../../../shared/api/auth';
 import { ApiError } from '../../../lib/api-client';
 import { request } from '../../../lib/api-client';
+
+/** The frame asks this before any page: its schema (and zod) load beside the request, not before it. */
+const meResponseSchema = () => import('../../../../shared/api/auth').then((m) => m.MeResponseSchema);
 
 /**
  * Who is signed in, or null. A 401 is the ordinary answer for a browser without a session (the
@@ -10,7 +13,7 @@ import { request } from '../../../lib/api-client';
  */
 export async function fetchSessionUser(signal?: AbortSignal): Promise<SessionUser | null> {
   try {
-    const { user } = await request(ME_PATH, MeResponseSchema, signal ? { signal } : {});
+    const { user } = await request(ME_PATH, meResponseSchema, signal ? { signal } : {});
     return user;
   } catch (error) {
     if (error instanceof ApiError && error.status === 401) return null;
@@ -41,4 +44,19 @@ export function useSessionUser(): SessionUser {
   const { data } = useSession();
   if (!data) throw new Error('useSessionUser is for pages inside the signed-in frame');
   return data;
+}
+
+/** The sign-out's mutation key: the frame reads its state without holding the mutation itself. */
+export const signOutMutationKey = () => [...sessionQueries.all(), 'sign-out'] as const;
+
+/**
+ * True while a sign-out started in this tab is under way or done, until the next sign-in: a
+ * session gone for that reason sends the next person to sign in afresh, not back to this page.
+ */
+export function useSignedOutHere(): boolean {
+  const statuses = useMutationState({
+    filters: { mutationKey: signOutMutationKey() },
+    select: (mutation) => mutation.state.status,
+  });
+  return statuses.some((status) => status === 'pending' || status === 'success');
 }

@@ -1,8 +1,10 @@
+import { Link } from 'react-router';
 import type { MachineDue } from '../../../../shared/api/reports';
+import { paths } from '../../../app/paths';
 import { Panel } from '../../../components/ui/panel';
 import { StatusPill } from '../../../components/ui/status-pill';
 import type { Tone } from '../../../components/ui/tone';
-import { formatCalendarDate, formatDecimal } from '../../../lib/format';
+import { countOf, formatCalendarDate, formatDecimal } from '../../../lib/format';
 
 const statusShown: Record<MachineDue['status'], { tone: Tone; word: string }> = {
   overdue: { tone: 'fail', word: 'Overdue' },
@@ -10,11 +12,31 @@ const statusShown: Record<MachineDue['status'], { tone: Tone; word: string }> = 
   due_soon: { tone: 'quiet', word: 'Due soon' },
 };
 
+/** The whole due list, due soon included, as it stands today. */
+const REMINDERS_DUE_SOON = `${paths.reminders}?show=soon`;
+
+type MachinesDueProps = {
+  /** The most urgent, as the report sends them (it lists at most MACHINES_DUE_LISTED). */
+  machines: MachineDue[];
+  /** How many are due soon, due or overdue in all. */
+  total: number;
+  end: string;
+  /** Whether to link to the reminders page for the rest: not for a role that cannot open it. */
+  linkToReminders?: boolean;
+};
+
 /** Service items due soon, due or overdue at the week's end, most urgent first as the report sends them. */
-export function MachinesDue({ machines, end }: { machines: MachineDue[]; end: string }) {
+export function MachinesDue({ machines, total, end, linkToReminders = true }: MachinesDueProps) {
+  const more = total - machines.length;
   return (
     <Panel>
       <h2 className="text-xl font-bold">Machines coming due</h2>
+      {machines.length > 0 && more > 0 ? (
+        <p className="mt-2 max-w-prose text-lg text-ink-soft">
+          {countOf(total, 'service item')} due soon, due or overdue by {formatCalendarDate(end)}; the{' '}
+          {formatDecimal(machines.length, 0)} most urgent first.
+        </p>
+      ) : null}
       {machines.length === 0 ? (
         <p className="mt-2 max-w-prose text-lg text-ink-soft">
           No machine is due for service by {formatCalendarDate(end)}. Set a machine’s service intervals (fuel
@@ -57,6 +79,20 @@ export function MachinesDue({ machines, end }: { machines: MachineDue[]; end: st
               ))}
             </tbody>
           </table>
+          {more > 0 ? (
+            <p className="mt-3 text-lg">
+              and {formatDecimal(more, 0)} more
+              {linkToReminders ? (
+                <>
+                  {' '}
+                  — see{' '}
+                  <Link to={REMINDERS_DUE_SOON} className="font-bold underline underline-offset-4">
+                    Reminders
+                  </Link>
+                </>
+              ) : null}
+            </p>
+          ) : null}
         </div>
       )}
     </Panel>

@@ -9,8 +9,11 @@ import { MachinesDue } from './machines-due';
 import { RevenueByDay } from './revenue-by-day';
 import { isQuietWeek, WeekFigures } from './week-figures';
 
-/** The review of the week starting `start`: its figures, the money by day, the checks, what comes due. */
-export function WeekReview({ start }: { start: string }) {
+/**
+ * The review of the week starting `start`: its figures, the money by day, the checks, what comes
+ * due. `linkToReminders` is for the route to turn off for a role without the reminders page.
+ */
+export function WeekReview({ start, linkToReminders = true }: { start: string; linkToReminders?: boolean }) {
   const report = useWeekReport(start);
 
   if (report.isPending) return <WeekLoading />;
@@ -44,7 +47,12 @@ export function WeekReview({ start }: { start: string }) {
         <RevenueByDay days={week.revenueByDay} />
         <CheckVerdicts checks={week.checks} />
       </div>
-      <MachinesDue machines={week.machinesDue} end={week.end} />
+      <MachinesDue
+        machines={week.machinesDue}
+        total={week.machinesDueTotal}
+        end={week.end}
+        linkToReminders={linkToReminders}
+      />
       <p className="text-base text-ink-soft">
         Days run midnight to midnight in the business’s time zone ({week.timezone}); balances and due dates
         are as they stood at the end of {formatCalendarDate(week.end)}.

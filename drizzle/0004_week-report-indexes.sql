@@ -1,0 +1,2 @@
+CREATE INDEX "check_runs_business_finished_idx" ON "check_runs" USING btree ("business_id","finished_at");--> statement-breakpoint
+CREATE INDEX "invoices_business_open_idx" ON "invoices" USING btree ("business_id","issued_on") WHERE "invoices"."balance_cents" > 0;
