@@ -134,6 +134,17 @@ describe('the week page', () => {
     expect(router.state.location.search).toBe('?show=soon');
   });
 
+  it('counts the rest for the bookkeeper without a link to Reminders, a section they are not offered', async () => {
+    const report: WeekReport = { ...sampleReport, machinesDueTotal: 45 };
+    fakeApi({ ...session('bookkeeper'), 'GET /api/reports/week': () => jsonResponse(200, report) });
+    await openWeek('/week?start=2026-11-09');
+
+    const heading = await main().findByRole('heading', { name: 'Machines coming due' });
+    const more = within(heading.parentElement!).getByText(/^and 42 more/);
+    expect(more.textContent).toBe('and 42 more');
+    expect(within(more).queryByRole('link')).toBeNull();
+  });
+
   it('says nothing of more when the list is the whole of it', async () => {
     ownerWithWeek();
     await openWeek('/week?start=2026-11-09');

@@ -68,6 +68,11 @@ export function sectionAt(pathname: string): Section | undefined {
   return sections.find((section) => under(section.path) || (section.alsoAt ?? []).some(under));
 }
 
+/** Whether `role` is offered the section at `path`, so a page links only to sections the reader can open. */
+export function mayOpen(path: string, role: Role): boolean {
+  return sectionAt(path)?.roles.includes(role) ?? false;
+}
+
 /** Where a role lands after sign-in: its first section, so a helper starts on Jobs, not a refusal. */
 export function homePathFor(role: Role): string {
   const first = sectionsFor(role)[0];

@@ -1,14 +1,18 @@
 import { useState } from 'react';
 import { useSearchParams } from 'react-router';
 import { PageHeading } from '../../components/ui/page-heading';
+import { useSessionUser } from '../../features/session/api/queries';
 import { WeekPicker } from '../../features/week/components/week-picker';
 import { WeekReview } from '../../features/week/components/week-review';
 import { lastDayOf, mondayOf, weekFromParam } from '../../features/week/week-range';
 import { formatDateRange } from '../../lib/format';
+import { mayOpen } from '../layout/sections';
+import { paths } from '../paths';
 
 /** The desk review (PRODUCT.md, "Week review"); the week is in the address, `?start=YYYY-MM-DD`. */
 export function Component() {
   const [search, setSearch] = useSearchParams();
+  const { role } = useSessionUser();
   // Read once per visit: "this week" should not move under someone reviewing at midnight on Sunday.
   const [today] = useState(() => new Date());
   const thisWeek = mondayOf(today);
@@ -31,7 +35,7 @@ export function Component() {
           onPickDay={(day) => setSearch({ start: weekFromParam(day, today).start })}
         />
       </div>
-      <WeekReview start={week.start} />
+      <WeekReview start={week.start} linkToReminders={mayOpen(paths.reminders, role)} />
     </>
   );
 }
