@@ -37,6 +37,15 @@ export class ApiError extends Error {
   }
 }
 
+/** The `init` of a write that sends `body` as JSON; no body at all when it is undefined. */
+export function jsonInit(method: 'POST' | 'PATCH' | 'PUT' | 'DELETE', body?: unknown): RequestInit {
+  return {
+    method,
+    headers: { 'Content-Type': 'application/json' },
+    ...(body === undefined ? {} : { body: JSON.stringify(body) }),
+  };
+}
+
 /**
  * Fetches an API path and returns the body parsed by `schema`, or throws an `ApiError`. Cookies go
  * along because the session lives in an httpOnly cookie the page cannot read.

@@ -59,3 +59,34 @@ export function formatCalendarDate(isoDate: string, style: DateStyle = 'medium')
 export function formatDateRange(startIso: string, endIso: string): string {
   return dateFormats.medium.formatRange(calendarDate(startIso), calendarDate(endIso));
 }
+
+const instantFormats = {
+  /** "Oct 10, 2026" */
+  day: new Intl.DateTimeFormat(LOCALE, { month: 'short', day: 'numeric', year: 'numeric' }),
+  /** "Oct 10, 2026, 9:30 AM" */
+  dayTime: new Intl.DateTimeFormat(LOCALE, {
+    month: 'short',
+    day: 'numeric',
+    year: 'numeric',
+    hour: 'numeric',
+    minute: '2-digit',
+  }),
+  /** "Tue, Nov 17, 9:30 AM" */
+  weekdayTime: new Intl.DateTimeFormat(LOCALE, {
+    weekday: 'short',
+    month: 'short',
+    day: 'numeric',
+    hour: 'numeric',
+    minute: '2-digit',
+  }),
+} as const;
+
+export type InstantStyle = keyof typeof instantFormats;
+
+/**
+ * An instant (ISO 8601 with offset) as it fell where the dashboard is being read: the van and the
+ * desk are in the business's own zone.
+ */
+export function formatInstant(iso: string, style: InstantStyle = 'day'): string {
+  return instantFormats[style].format(new Date(iso));
+}

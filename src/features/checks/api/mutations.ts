@@ -4,14 +4,8 @@ import { CheckRunSchema, jobChecksPath } from '../../../../shared/api/checks';
 import type { CheckRun, StepAnswerInput } from '../../../../shared/api/checks';
 import { AppliedLinesSchema } from '../../../../shared/api/line-items';
 import type { ProcedureKey } from '../../../../shared/procedures/index';
-import { request } from '../../../lib/api-client';
+import { jsonInit, request } from '../../../lib/api-client';
 import { checkQueries } from './queries';
-
-const json = (body: unknown): RequestInit => ({
-  method: 'POST',
-  headers: { 'Content-Type': 'application/json' },
-  body: JSON.stringify(body),
-});
 
 const runPath = (jobId: number, runId: number) => `${jobChecksPath(jobId)}/${runId}`;
 
@@ -32,7 +26,7 @@ export function useStartCheckRun(jobId: number) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: ({ procedure, clientId }: { procedure: ProcedureKey; clientId: string }) =>
-      request(jobChecksPath(jobId), CheckRunSchema, json({ procedure, clientId })),
+      request(jobChecksPath(jobId), CheckRunSchema, jsonInit('POST', { procedure, clientId })),
     onSuccess: (run) => storeRun(queryClient, run),
   });
 }
@@ -42,7 +36,7 @@ export function useAnswerCheckStep(jobId: number, runId: number) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (input: StepAnswerInput) =>
-      request(`${runPath(jobId, runId)}/steps`, CheckRunSchema, json(input)),
+      request(`${runPath(jobId, runId)}/steps`, CheckRunSchema, jsonInit('POST', input)),
     onSuccess: (run) => storeRun(queryClient, run),
   });
 }
@@ -50,7 +44,7 @@ export function useAnswerCheckStep(jobId: number, runId: number) {
 export function useBackCheckStep(jobId: number, runId: number) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: () => request(`${runPath(jobId, runId)}/back`, CheckRunSchema, json({})),
+    mutationFn: () => request(`${runPath(jobId, runId)}/back`, CheckRunSchema, jsonInit('POST', {})),
     onSuccess: (run) => storeRun(queryClient, run),
   });
 }
@@ -58,7 +52,7 @@ export function useBackCheckStep(jobId: number, runId: number) {
 export function usePauseCheckRun(jobId: number, runId: number) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: () => request(`${runPath(jobId, runId)}/pause`, CheckRunSchema, json({})),
+    mutationFn: () => request(`${runPath(jobId, runId)}/pause`, CheckRunSchema, jsonInit('POST', {})),
     onSuccess: (run) => storeRun(queryClient, run),
   });
 }
@@ -70,7 +64,8 @@ export function usePauseCheckRun(jobId: number, runId: number) {
 export function useApplyCheckLines(jobId: number, runId: number) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: () => request(`${runPath(jobId, runId)}/apply-lines`, AppliedLinesSchema, json({})),
+    mutationFn: () =>
+      request(`${runPath(jobId, runId)}/apply-lines`, AppliedLinesSchema, jsonInit('POST', {})),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: checkQueries.detail(jobId, runId).queryKey }),
   });
 }

@@ -5,6 +5,7 @@ import { isAllowed } from '../../../../shared/api/policy';
 import { Panel } from '../../../components/ui/panel';
 import { StatusPill } from '../../../components/ui/status-pill';
 import { buttonClasses } from '../../../components/ui/button';
+import { formatInstant } from '../../../lib/format';
 import { pathTo } from '../../../app/paths';
 import { useSessionUser } from '../../session/api/queries';
 import { checkQueries, useCheckRuns } from '../api/queries';
@@ -15,14 +16,6 @@ import { RunOutcome } from './run-outcome';
 import { RUN_STATUS_WORDS } from './run-status';
 import { StepRecord } from './step-record';
 import { VerdictPill } from './verdict-pill';
-
-const startedFormat = new Intl.DateTimeFormat('en-US', {
-  month: 'short',
-  day: 'numeric',
-  year: 'numeric',
-  hour: 'numeric',
-  minute: '2-digit',
-});
 
 /**
  * A job's guided checks for its page: each run with its status, every step's verdict and reason,
@@ -112,9 +105,7 @@ function RunCard({
               {summary.title}, check {summary.id}
             </Link>
           </h3>
-          <p className="text-base text-ink-soft">
-            Started {startedFormat.format(new Date(summary.startedAt))}
-          </p>
+          <p className="text-base text-ink-soft">Started {formatInstant(summary.startedAt, 'dayTime')}</p>
         </div>
         <div className="flex flex-wrap items-center gap-2">
           <StatusPill tone={summary.status === 'finished' ? 'pass' : 'quiet'}>

@@ -8,14 +8,8 @@ import {
   PaymentLinkSchema,
 } from '../../../../shared/api/payments';
 import type { InvoiceSent, PaymentLink } from '../../../../shared/api/payments';
-import { request } from '../../../lib/api-client';
+import { jsonInit, request } from '../../../lib/api-client';
 import { invoiceQueries } from './queries';
-
-const json = (body: unknown): RequestInit => ({
-  method: 'POST',
-  headers: { 'Content-Type': 'application/json' },
-  body: JSON.stringify(body),
-});
 
 /**
  * What changed when one invoice changed: its own page, and every list (its row shows the status,
@@ -29,7 +23,7 @@ function invoiceChanged(queryClient: QueryClient, id: number) {
 }
 
 export function recordPayment(id: number, input: CreatePaymentInput): Promise<RecordedPayment> {
-  return request(invoicePaymentsPath(id), RecordedPaymentSchema, json(input));
+  return request(invoicePaymentsPath(id), RecordedPaymentSchema, jsonInit('POST', input));
 }
 
 export function useRecordPayment(id: number) {
@@ -63,7 +57,7 @@ export function useSendInvoice(id: number) {
 }
 
 export function createPaymentLink(id: number): Promise<PaymentLink> {
-  return request(invoicePaymentLinkPath(id), PaymentLinkSchema, json({}));
+  return request(invoicePaymentLinkPath(id), PaymentLinkSchema, jsonInit('POST', {}));
 }
 
 export function useCreatePaymentLink(id: number) {

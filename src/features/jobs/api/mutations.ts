@@ -26,15 +26,16 @@ import {
   jobEstimatePath,
 } from '../../../../shared/api/estimates';
 import { jobReportSendPath } from '../../../../shared/api/job-documents';
-import { ApiError, CLIENT_ERROR_CODES, request } from '../../../lib/api-client';
+import { ApiError, CLIENT_ERROR_CODES, jsonInit, request } from '../../../lib/api-client';
 import { jobQueries } from './queries';
 
-function sendJson<Schema extends z.ZodType>(method: string, path: string, schema: Schema, body?: unknown) {
-  return request(path, schema, {
-    method,
-    headers: { 'Content-Type': 'application/json' },
-    ...(body === undefined ? {} : { body: JSON.stringify(body) }),
-  });
+function sendJson<Schema extends z.ZodType>(
+  method: 'POST' | 'PATCH' | 'DELETE',
+  path: string,
+  schema: Schema,
+  body?: unknown,
+) {
+  return request(path, schema, jsonInit(method, body));
 }
 
 const NoContentSchema = z.undefined();

@@ -1,20 +1,14 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { machinePath, MACHINES_PATH, MachineSchema } from '../../../../shared/api/machines';
 import type { CreateMachineBody, UpdateMachineBody } from '../../../../shared/api/machines';
-import { request } from '../../../lib/api-client';
+import { jsonInit, request } from '../../../lib/api-client';
 import { machineQueries } from './queries';
-
-const json = (method: 'POST' | 'PATCH', body: unknown): RequestInit => ({
-  method,
-  headers: { 'Content-Type': 'application/json' },
-  body: JSON.stringify(body),
-});
 
 /** A new machine joins the machine lists (its customer's, and any search it matches). */
 export function useCreateMachine() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (input: CreateMachineBody) => request(MACHINES_PATH, MachineSchema, json('POST', input)),
+    mutationFn: (input: CreateMachineBody) => request(MACHINES_PATH, MachineSchema, jsonInit('POST', input)),
     onSuccess: (machine) => {
       queryClient.setQueryData(machineQueries.detail(machine.id).queryKey, machine);
       return queryClient.invalidateQueries({ queryKey: machineQueries.lists() });
@@ -29,7 +23,8 @@ export function useCreateMachine() {
 export function useUpdateMachine(id: number) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (input: UpdateMachineBody) => request(machinePath(id), MachineSchema, json('PATCH', input)),
+    mutationFn: (input: UpdateMachineBody) =>
+      request(machinePath(id), MachineSchema, jsonInit('PATCH', input)),
     onSuccess: (machine, input) => {
       queryClient.setQueryData(machineQueries.detail(id).queryKey, machine);
       const stale = [queryClient.invalidateQueries({ queryKey: machineQueries.lists() })];

@@ -2,7 +2,7 @@ import type { ReactNode } from 'react';
 import type { Machine } from '../../../../shared/api/machines';
 import { FactList } from '../../../components/ui/fact-list';
 import type { Fact } from '../../../components/ui/fact-list';
-import { formatInstantDay } from './instant';
+import { formatInstant } from '../../../lib/format';
 import { MACHINE_KIND_LABELS, meterText } from './machine-labels';
 
 /** The machine's identity and meter as recorded; `owner` is the customer, linked by the page. */
@@ -22,7 +22,7 @@ export function MachineSummary({ machine, owner }: { machine: Machine; owner?: R
         <>
           {meter}
           {machine.meterReadAt ? (
-            <span className="text-ink-soft"> (read {formatInstantDay(machine.meterReadAt)})</span>
+            <span className="text-ink-soft"> (read {formatInstant(machine.meterReadAt)})</span>
           ) : null}
         </>
       ) : (

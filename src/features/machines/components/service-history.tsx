@@ -12,8 +12,8 @@ import { LoadFailure, Loading } from '../../../components/ui/load-failure';
 import { StatusPill } from '../../../components/ui/status-pill';
 import type { Tone } from '../../../components/ui/tone';
 import { formatCents } from '../../../lib/money';
+import { formatInstant } from '../../../lib/format';
 import { useJobLineItems, useJobReadings, useMachineHistory } from '../api/queries';
-import { formatInstantDay } from './instant';
 import { meterText } from './machine-labels';
 
 /** Where a visit and a check link to; null where this role has no page for them. */
@@ -112,7 +112,7 @@ function HistoryJob({ machineId, job, meterUnit, links, showReadings, showLineIt
     >
       <header className="flex flex-wrap items-baseline justify-between gap-x-4 gap-y-2">
         <h3 id={`job-${job.id}-title`} className="text-xl font-bold">
-          {when ? formatInstantDay(when) : 'Not yet scheduled'}
+          {when ? formatInstant(when) : 'Not yet scheduled'}
           {meter ? <span className="font-medium text-ink-soft"> · {meter}</span> : null}
         </h3>
         <div className="flex flex-wrap items-center gap-3">
@@ -157,7 +157,7 @@ function HistoryJob({ machineId, job, meterUnit, links, showReadings, showLineIt
               )}
               <span className="text-ink-soft">
                 {checkStatusWords[check.status]}
-                {check.finishedAt ? ` ${formatInstantDay(check.finishedAt)}` : ''}
+                {check.finishedAt ? ` ${formatInstant(check.finishedAt)}` : ''}
               </span>
             </li>
           ))}

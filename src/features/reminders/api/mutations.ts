@@ -2,7 +2,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { OutboxItemSchema } from '../../../../shared/api/outbox';
 import { REMINDERS_PATH, ReminderSchema } from '../../../../shared/api/reminders';
 import type { DueItem } from '../../../../shared/api/reminders';
-import { ApiError, request } from '../../../lib/api-client';
+import { ApiError, jsonInit, request } from '../../../lib/api-client';
 import { reminderQueries } from './queries';
 
 /** `POST /api/reminders/:id/send` (server/routes/invoice-send.ts); `?again=true` once it has gone. */
@@ -17,11 +17,11 @@ async function openReminderId(item: DueItem): Promise<number> {
   const current = item.reminder;
   if (current && (current.status === 'pending' || current.status === 'sent')) return current.id;
   try {
-    const created = await request(REMINDERS_PATH, ReminderSchema, {
-      method: 'POST',
-      headers: { 'Content-Type': 'application/json' },
-      body: JSON.stringify({ serviceIntervalId: item.serviceIntervalId }),
-    });
+    const created = await request(
+      REMINDERS_PATH,
+      ReminderSchema,
+      jsonInit('POST', { serviceIntervalId: item.serviceIntervalId }),
+    );
     return created.id;
   } catch (error) {
     const existing = error instanceof ApiError && error.status === 409 ? reminderIdIn(error.details) : null;

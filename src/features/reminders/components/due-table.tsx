@@ -9,7 +9,7 @@ import { StatusPill } from '../../../components/ui/status-pill';
 import { toneClasses, toneGlyphs } from '../../../components/ui/tone';
 import type { Tone } from '../../../components/ui/tone';
 import { errorText } from '../../../lib/error-text';
-import { formatCalendarDate, formatDecimal } from '../../../lib/format';
+import { formatCalendarDate, formatDecimal, formatInstant } from '../../../lib/format';
 import { useSendReminder } from '../api/mutations';
 import { useDueList } from '../api/queries';
 import type { DueFilter } from '../api/queries';
@@ -154,17 +154,12 @@ function reminderWords(item: DueItem): string {
     case 'pending':
       return 'Written, not sent yet.';
     case 'sent':
-      return reminder.sentAt ? `Sent ${formatInstantDay(reminder.sentAt)}.` : 'Sent.';
+      return reminder.sentAt ? `Sent ${formatInstant(reminder.sentAt)}.` : 'Sent.';
     case 'dismissed':
       return 'Dismissed.';
     case 'done':
       return 'Marked done.';
   }
-}
-
-const dayFormat = new Intl.DateTimeFormat('en-US', { month: 'short', day: 'numeric', year: 'numeric' });
-function formatInstantDay(iso: string): string {
-  return dayFormat.format(new Date(iso));
 }
 
 function ReminderState({ item }: { item: DueItem }) {

@@ -2,7 +2,7 @@ import { hashKey, useMutation, useQueryClient } from '@tanstack/react-query';
 import type { QueryClient } from '@tanstack/react-query';
 import { SIGN_IN_PATH, SIGN_OUT_PATH } from '../../../../shared/api/auth-paths';
 import type { SessionUser, SignInInput } from '../../../../shared/api/auth';
-import { ApiError, request } from '../../../lib/api-client';
+import { ApiError, jsonInit, request } from '../../../lib/api-client';
 import { holdsPersonalData } from '../../../lib/query-scope';
 import { sessionQueries, signOutMutationKey } from './queries';
 
@@ -28,11 +28,11 @@ const authSchemas = () => import('../../../../shared/api/auth');
 
 export function signIn(input: SignInInput) {
   // The server sets the httpOnly session cookie; the token in the body is for the CLI, not the page.
-  return request(SIGN_IN_PATH, async () => (await authSchemas()).SignInResponseSchema, {
-    method: 'POST',
-    headers: { 'Content-Type': 'application/json' },
-    body: JSON.stringify(input),
-  });
+  return request(
+    SIGN_IN_PATH,
+    async () => (await authSchemas()).SignInResponseSchema,
+    jsonInit('POST', input),
+  );
 }
 
 export function useSignIn() {

@@ -3,17 +3,11 @@ import { BUSINESS_PATH, BusinessSettingsSchema } from '../../../../shared/api/bu
 import type { BusinessSettings, UpdateBusinessInput } from '../../../../shared/api/business';
 import { USERS_PATH, UserSchema } from '../../../../shared/api/users';
 import type { CreateUserInput, UpdateUserInput, User } from '../../../../shared/api/users';
-import { request } from '../../../lib/api-client';
+import { jsonInit, request } from '../../../lib/api-client';
 import { settingsQueries } from './queries';
 
-const json = (method: 'POST' | 'PATCH', body: unknown): RequestInit => ({
-  method,
-  headers: { 'Content-Type': 'application/json' },
-  body: JSON.stringify(body),
-});
-
 export function updateBusiness(input: UpdateBusinessInput): Promise<BusinessSettings> {
-  return request(BUSINESS_PATH, BusinessSettingsSchema, json('PATCH', input));
+  return request(BUSINESS_PATH, BusinessSettingsSchema, jsonInit('PATCH', input));
 }
 
 /** Each settings section has its own, so one section's "saved" is not another's. */
@@ -27,7 +21,7 @@ export function useUpdateBusiness() {
 }
 
 export function createUser(input: CreateUserInput): Promise<User> {
-  return request(USERS_PATH, UserSchema, json('POST', input));
+  return request(USERS_PATH, UserSchema, jsonInit('POST', input));
 }
 
 export function useCreateUser() {
@@ -39,7 +33,7 @@ export function useCreateUser() {
 }
 
 export function updateUser(id: number, input: UpdateUserInput): Promise<User> {
-  return request(`${USERS_PATH}/${id}`, UserSchema, json('PATCH', input));
+  return request(`${USERS_PATH}/${id}`, UserSchema, jsonInit('PATCH', input));
 }
 
 export function useUpdateUser() {
