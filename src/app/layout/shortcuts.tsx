@@ -1,4 +1,4 @@
-import { useEffect, useRef, useState } from 'react';
+import { useEffect, useLayoutEffect, useRef, useState } from 'react';
 import { useNavigate } from 'react-router';
 import type { Role } from '../../../shared/api/users';
 import { isAllowed } from '../../../shared/api/policy';
@@ -49,7 +49,9 @@ export function KeyboardShortcuts({ role }: { role: Role }) {
   const dialog = useRef<HTMLDialogElement>(null);
   const shortcuts = shortcutsFor(role, (to) => void navigate(to));
 
-  useEffect(() => {
+  // Listening from the commit on (a layout effect, not a passive one) means a key pressed as soon as
+  // the page shows is never lost to an effect that has not run yet.
+  useLayoutEffect(() => {
     const onKey = (event: KeyboardEvent) => {
       if (event.defaultPrevented || event.ctrlKey || event.metaKey || event.altKey) return;
       if (typingInField(event.target)) return;
