@@ -1,20 +1,49 @@
 /**
  * Adds one plain closing line, `N passed, N failed, N skipped`, after Vitest's own summary, so a
  * reader of the CI log (human or machine) sees the counts in the form most test runners print.
+ *
+ * Vitest reports the tests of a suite whose `beforeAll` threw as skipped, and a file that failed to
+ * import as no tests at all; here both count as failed, so a broken setup can never read as green.
+ * Only a test marked to skip (`it.skip`, `skipIf`, `todo`) counts as skipped.
  */
-import type { Reporter, TestModule } from 'vitest/node';
+import type { Reporter, TestCase, TestModule } from 'vitest/node';
+
+export interface Counts {
+  passed: number;
+  failed: number;
+  skipped: number;
+}
+
+/** Whether a suite or the file around the test failed outside any test (a hook, an import). */
+function underFailure(test: TestCase): boolean {
+  for (let parent = test.parent; ; parent = parent.parent) {
+    if (parent.state() === 'failed') return true;
+    if (parent.type === 'module') return false;
+  }
+}
+
+export function countResults(testModules: ReadonlyArray<TestModule>): Counts {
+  const counts: Counts = { passed: 0, failed: 0, skipped: 0 };
+  for (const module of testModules) {
+    let failedHere = 0;
+    for (const test of module.children.allTests()) {
+      const state = test.result().state;
+      if (state === 'passed') counts.passed += 1;
+      else if (state === 'failed') failedHere += 1;
+      else if (test.options.mode === 'skip' || test.options.mode === 'todo') counts.skipped += 1;
+      else if (underFailure(test)) failedHere += 1;
+      else counts.skipped += 1;
+    }
+    // A file that threw before any test was collected, or broke in a hook after all its tests passed.
+    if (failedHere === 0 && module.state() === 'failed') failedHere = 1;
+    counts.failed += failedHere;
+  }
+  return counts;
+}
 
 export default class SummaryReporter implements Reporter {
   onTestRunEnd(testModules: ReadonlyArray<TestModule>): void {
-    const counts = { passed: 0, failed: 0, skipped: 0 };
-    for (const module of testModules) {
-      for (const test of module.children.allTests()) {
-        const state = test.result().state;
-        if (state === 'passed') counts.passed += 1;
-        else if (state === 'failed') counts.failed += 1;
-        else counts.skipped += 1;
-      }
-    }
-    process.stdout.write(`\n${counts.passed} passed, ${counts.failed} failed, ${counts.skipped} skipped\n`);
+    const { passed, failed, skipped } = countResults(testModules);
+    process.stdout.write(`\n${passed} passed, ${failed} failed, ${skipped} skipped\n`);
   }
 }
