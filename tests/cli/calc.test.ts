@@ -4,7 +4,7 @@ import { unit } from 'mathjs';
 import { describe, expect, it, vi } from 'vitest';
 // @ts-expect-error -- vin-validator ships no type declarations; its one function is typed below.
 import vinValidator from 'vin-validator';
-import { runConvert, runHold, runMileage, runVin } from '../../cli/commands/calc';
+import { runConvert, runHold, runMileage, runVin } from '../../cli/actions/calc';
 import { runCli } from '../../cli/program';
 import { fakeDeps } from '../helpers/cli';
 

@@ -2,7 +2,7 @@ import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { describe, expect, it, vi } from 'vitest';
-import { walkInTerminal } from '../../cli/commands/check';
+import { walkInTerminal } from '../../cli/actions/check';
 import type { Prompter } from '../../cli/lib/deps';
 import { listQueue } from '../../cli/lib/queue';
 import { runCli } from '../../cli/program';
