@@ -595,9 +595,20 @@ export const serviceIntervals = pgTable(
     source: specSourceEnum().notNull().default('generic'),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
+    /**
+     * The months limit's date: lastDoneOn plus everyMonths calendar months, the month's last day
+     * where it has no such day (as the evaluator's date-fns addMonths); null without both. Kept by
+     * the database on every write, so the week report ranks and counts without working it out for
+     * every interval on every request.
+     */
+    monthsDueOn: date({ mode: 'string' }).generatedAlwaysAs(
+      sql`(last_done_on + every_months * interval '1 month')::date`,
+    ),
   },
   (t) => [
     index('service_intervals_machine_idx').on(t.machineId),
+    // The week report's most urgent: the longest overdue by date first, in its listing order.
+    index('service_intervals_business_months_due_idx').on(t.businessId, t.monthsDueOn, t.machineId, t.id),
     check(
       'service_intervals_some_limit_check',
       sql`${t.everyKm} is not null or ${t.everyHours} is not null or ${t.everyMonths} is not null`,

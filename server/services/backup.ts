@@ -42,6 +42,8 @@ interface TableInfo {
   primaryKey: string;
   /** The identity column, whose sequence a restore moves past the restored ids. */
   identity: string | null;
+  /** Columns the database works out from the others (generated always as …): read, never written. */
+  computed: ReadonlySet<string>;
   /** Tables this one's foreign keys point at. */
   references: string[];
 }
@@ -58,6 +60,7 @@ function describeTable(table: PgTable): TableInfo {
     columns: new Set(config.columns.map(sqlName)),
     primaryKey: sqlName(primary),
     identity: identity ? sqlName(identity) : null,
+    computed: new Set(config.columns.filter((column) => column.generated).map(sqlName)),
     references: config.foreignKeys.map((key) => getTableConfig(key.reference().foreignTable).name),
   };
 }
@@ -261,7 +264,8 @@ function planTable(table: TableInfo, rows: Row[], from: number, to: number): Tab
       row.storage_key = `${to}/${parts[2]}`;
     }
   }
-  return { table, columns, rows: planned };
+  // A computed column's value in the backup is the one the database works out again on insert.
+  return { table, columns: columns.filter((column) => !table.computed.has(column)), rows: planned };
 }
 
 /** Everything that can be checked before the database is touched. */

@@ -3,7 +3,7 @@
  * (count, sum, group by); the rule behind each is written beside its query and in
  * WeekReportSchema's describe(), which the dashboard and `vanbay week` show.
  */
-import { and, count, eq, gte, isNotNull, lt, ne, sql } from 'drizzle-orm';
+import { gte, lt, ne, sql, type SQL } from 'drizzle-orm';
 import {
   MACHINES_DUE_LISTED,
   type MachineDue,
@@ -30,76 +30,95 @@ interface Week {
   until: Date;
 }
 
-/** Jobs done: completedAt in the week; a job cancelled since does not count. */
-async function jobsDone(db: Db, actor: Actor, week: Week): Promise<number> {
-  const [row] = await db
-    .select({ n: count() })
-    .from(t.jobs)
-    .where(
-      scoped(
-        actor,
-        { businessId: t.jobs.businessId },
-        gte(t.jobs.completedAt, week.from),
-        lt(t.jobs.completedAt, week.until),
-        ne(t.jobs.status, 'cancelled'),
-      ),
-    );
-  return row?.n ?? 0;
-}
-
 /**
- * Revenue: totals (tax included) of invoices issued in the week that are not void, per issue day
- * and for the week (ROLLUP's row with a null day).
+ * The week's jobs, money and checks: each figure is one single-row aggregate, written below with
+ * its rule, and all of them travel as one statement. PGlite answers one statement at a time and
+ * each costs a round trip and a plan of its own, which for these few-row aggregates is most of
+ * their cost.
  */
-async function revenue(db: Db, week: Week) {
-  const rows = await queryRows<{ day: string | null; cents: number }>(
+async function weekFigures(db: Db, actor: Actor, week: Week) {
+  const [row] = await queryRows<{
+    jobsDone: number;
+    revenueByDay: Record<string, number> | null;
+    revenueCents: number;
+    hoursMilli: number;
+    collectedCents: number;
+    unpaidCount: number;
+    unpaidCents: number;
+    overdueCount: number;
+    overdueCents: number;
+    pass: number;
+    warn: number;
+    fail: number;
+  }>(
     db,
-    sql`select to_char(${t.invoices.issuedOn}, 'YYYY-MM-DD') as day, sum(${t.invoices.totalCents})::int as cents
-        from ${t.invoices}
-        where ${t.invoices.businessId} = ${week.businessId} and ${t.invoices.status} <> 'void'
-          and ${t.invoices.issuedOn} between ${week.start}::date and ${week.end}::date
-        group by rollup (${t.invoices.issuedOn})`,
+    sql`with week_invoices as (${weekInvoices(week)})
+        select jobs."jobsDone", revenue."revenueByDay", revenue."revenueCents", hours."hoursMilli",
+               collected."collectedCents", balances."unpaidCount", balances."unpaidCents",
+               balances."overdueCount", balances."overdueCents", checks.pass, checks.warn, checks.fail
+        from (${jobsDone(actor, week)}) as jobs
+        cross join (${revenue()}) as revenue
+        cross join (${hoursBilled()}) as hours
+        cross join (${collected(week)}) as collected
+        cross join (${openBalances(week)}) as balances
+        cross join (${checkVerdicts(week)}) as checks`,
   );
-  const byDay = new Map(rows.filter((row) => row.day !== null).map((row) => [row.day, row.cents]));
+  const figures = row!;
+  const byDay = figures.revenueByDay ?? {};
   return {
-    revenueCents: rows.find((row) => row.day === null)?.cents ?? 0,
+    jobsDone: figures.jobsDone,
+    revenueCents: figures.revenueCents,
     revenueByDay: Array.from({ length: 7 }, (_, i) => {
       const date = addCalendarDays(week.start, i);
-      return { date, cents: byDay.get(date) ?? 0 };
+      return { date, cents: byDay[date] ?? 0 };
     }),
+    hoursBilled: round(figures.hoursMilli / 1000, 3),
+    collectedCents: figures.collectedCents,
+    unpaid: { count: figures.unpaidCount, balanceCents: figures.unpaidCents },
+    overdue: { count: figures.overdueCount, balanceCents: figures.overdueCents },
+    checks: { pass: figures.pass, warn: figures.warn, fail: figures.fail },
   };
 }
 
-/** Hours billed: the labour lines' quantities (thousandths of an hour) on the week's non-void invoices. */
-async function hoursBilled(db: Db, week: Week): Promise<number> {
-  const [row] = await db
-    .select({ milli: sql<number>`coalesce(sum(${t.invoiceLines.quantityMilli}), 0)::int`.mapWith(Number) })
-    .from(t.invoiceLines)
-    .innerJoin(t.invoices, eq(t.invoices.id, t.invoiceLines.invoiceId))
-    .where(
-      and(
-        eq(t.invoices.businessId, week.businessId),
-        ne(t.invoices.status, 'void'),
-        sql`${t.invoices.issuedOn} between ${week.start}::date and ${week.end}::date`,
-        eq(t.invoiceLines.kind, 'labour'),
-      ),
-    );
-  return round((row?.milli ?? 0) / 1000, 3);
+/** Jobs done: completedAt in the week; a job cancelled since does not count. */
+function jobsDone(actor: Actor, week: Week): SQL {
+  return sql`select count(*)::int as "jobsDone" from ${t.jobs}
+    where ${scoped(
+      actor,
+      { businessId: t.jobs.businessId },
+      gte(t.jobs.completedAt, week.from),
+      lt(t.jobs.completedAt, week.until),
+      ne(t.jobs.status, 'cancelled'),
+    )}`;
+}
+
+/** The invoices revenue and hours billed read: issued in the week and not void. */
+function weekInvoices(week: Week): SQL {
+  return sql`select id, issued_on, total_cents from invoices
+    where business_id = ${week.businessId} and status <> 'void'
+      and issued_on between ${week.start}::date and ${week.end}::date`;
+}
+
+/** Revenue: totals (tax included) of the week's invoices, per issue day and for the week. */
+function revenue(): SQL {
+  return sql`select json_object_agg(day, cents) as "revenueByDay", coalesce(sum(cents), 0)::int as "revenueCents"
+    from (
+      select to_char(issued_on, 'YYYY-MM-DD') as day, sum(total_cents)::int as cents
+      from week_invoices group by issued_on
+    ) as days`;
+}
+
+/** Hours billed: the labour lines' quantities (thousandths of an hour) on the week's invoices. */
+function hoursBilled(): SQL {
+  return sql`select coalesce(sum(l.quantity_milli), 0)::int as "hoursMilli"
+    from week_invoices i join invoice_lines l on l.invoice_id = i.id
+    where l.kind = 'labour'`;
 }
 
 /** Collected: every payment received in the week, refunds (negative amounts) netted off. */
-async function collected(db: Db, week: Week): Promise<number> {
-  const [row] = await db
-    .select({ cents: sql<number>`coalesce(sum(${t.payments.amountCents}), 0)::int`.mapWith(Number) })
-    .from(t.payments)
-    .where(
-      and(
-        eq(t.payments.businessId, week.businessId),
-        gte(t.payments.receivedAt, week.from),
-        lt(t.payments.receivedAt, week.until),
-      ),
-    );
-  return row?.cents ?? 0;
+function collected(week: Week): SQL {
+  return sql`select coalesce(sum(amount_cents), 0)::int as "collectedCents" from payments
+    where business_id = ${week.businessId} and received_at >= ${week.from} and received_at < ${week.until}`;
 }
 
 /**
@@ -108,68 +127,44 @@ async function collected(db: Db, week: Week): Promise<number> {
  * (total less the payments received before the week ended) above 0. Overdue: of those, due
  * before the end day (the invoice rule of InvoiceSchema, read on the end day).
  *
- * Only invoices that can have been open at the week's end are looked at: an invoice's stored
- * balance is its total less every payment on it (payments.ts keeps it so, a void keeps its
- * balance), so one with a balance then either still has one now or took a payment or refund since.
- * Ten years of paid invoices are never visited. `offset 0` keeps the balance worked out once per
- * invoice, not once per aggregate that reads it.
+ * An invoice's stored balance is its total less every payment on it (payments.ts keeps it so, the
+ * invoices_balance_check holds balance = total − paid, and a void keeps its balance), so its
+ * balance then is its balance now plus what was paid on it since the week ended (refunds
+ * negative). An invoice open then either still has a balance now (the few of the partial index
+ * invoices_business_open_idx) or took a payment or refund since (the few payments after the week):
+ * the two branches, by today's balance above 0 or not, never meet. Ten years of paid invoices and
+ * their payments are never visited.
  */
-async function openBalances(db: Db, week: Week) {
-  const [row] = await queryRows<{
-    unpaidCount: number;
-    unpaidCents: number;
-    overdueCount: number;
-    overdueCents: number;
-  }>(
-    db,
-    sql`select count(*) filter (where balance > 0)::int as "unpaidCount",
-               coalesce(sum(balance) filter (where balance > 0), 0)::int as "unpaidCents",
-               count(*) filter (where balance > 0 and due_on < ${week.end}::date)::int as "overdueCount",
-               coalesce(sum(balance) filter (where balance > 0 and due_on < ${week.end}::date), 0)::int
-                 as "overdueCents"
-        from (
-          select i.due_on,
-                 i.total_cents - coalesce((
-                   select sum(p.amount_cents) from payments p
-                   where p.invoice_id = i.id and p.received_at < ${week.until}
-                 ), 0) as balance
-          from unnest(array(
-                 select id from invoices
-                 where business_id = ${week.businessId} and balance_cents > 0 and issued_on <= ${week.end}::date
-                 union
-                 select invoice_id from payments
-                 where business_id = ${week.businessId} and received_at >= ${week.until}
-               )) as maybe_open(id)
-          join invoices i on i.id = maybe_open.id
-          where i.business_id = ${week.businessId} and i.status <> 'draft'
-            and i.issued_on <= ${week.end}::date
-            and (i.voided_at is null or i.voided_at >= ${week.until})
-          offset 0
-        ) as standing`,
-  );
-  return {
-    unpaid: { count: row?.unpaidCount ?? 0, balanceCents: row?.unpaidCents ?? 0 },
-    overdue: { count: row?.overdueCount ?? 0, balanceCents: row?.overdueCents ?? 0 },
-  };
+function openBalances(week: Week): SQL {
+  const stood = sql`i.status <> 'draft' and i.issued_on <= ${week.end}::date
+    and (i.voided_at is null or i.voided_at >= ${week.until})`;
+  return sql`select count(*) filter (where balance > 0)::int as "unpaidCount",
+      coalesce(sum(balance) filter (where balance > 0), 0)::int as "unpaidCents",
+      count(*) filter (where balance > 0 and due_on < ${week.end}::date)::int as "overdueCount",
+      coalesce(sum(balance) filter (where balance > 0 and due_on < ${week.end}::date), 0)::int as "overdueCents"
+    from (
+      with since as (
+        select invoice_id, sum(amount_cents) as cents from payments
+        where business_id = ${week.businessId} and received_at >= ${week.until}
+        group by invoice_id
+      )
+      select i.due_on, i.balance_cents + coalesce(since.cents, 0) as balance
+      from invoices i left join since on since.invoice_id = i.id
+      where i.business_id = ${week.businessId} and i.balance_cents > 0 and ${stood}
+      union all
+      select i.due_on, i.balance_cents + since.cents
+      from since join invoices i on i.id = since.invoice_id
+      where i.business_id = ${week.businessId} and i.balance_cents <= 0 and ${stood}
+    ) as standing`;
 }
 
 /** Checks: guided checks finished in the week (finishedAt in it), counted per verdict. */
-async function checkVerdicts(db: Db, week: Week) {
-  const rows = await db
-    .select({ verdict: t.checkRuns.verdict, n: count() })
-    .from(t.checkRuns)
-    .where(
-      and(
-        eq(t.checkRuns.businessId, week.businessId),
-        gte(t.checkRuns.finishedAt, week.from),
-        lt(t.checkRuns.finishedAt, week.until),
-        isNotNull(t.checkRuns.verdict),
-      ),
-    )
-    .groupBy(t.checkRuns.verdict);
-  const counts = { pass: 0, warn: 0, fail: 0 };
-  for (const row of rows) if (row.verdict) counts[row.verdict] = row.n;
-  return counts;
+function checkVerdicts(week: Week): SQL {
+  return sql`select count(*) filter (where verdict = 'pass')::int as pass,
+      count(*) filter (where verdict = 'warn')::int as warn,
+      count(*) filter (where verdict = 'fail')::int as fail
+    from check_runs
+    where business_id = ${week.businessId} and finished_at >= ${week.from} and finished_at < ${week.until}`;
 }
 
 /** The evaluator's km-to-mile factor (NIST SP 811: 1 mi = 1.609 344 km exactly), for the same arithmetic in SQL. */
@@ -192,69 +187,62 @@ const URGENCY: Record<IntervalStatus, number> = { ok: 0, due_soon: 1, due: 2, ov
  * side of a meter limit from the evaluator's (within a millionth of it), or a stored value is one
  * the evaluator refuses, the interval is "unsure": SQL neither counts nor ranks it and the
  * evaluator judges it. The evaluator also judges every interval listed; its status, dates and
- * reason are what the report shows. `offset 0` keeps each derived value worked out once per row.
+ * reason are what the report shows.
+ *
+ * The count reads every interval once, in one pass with no sort (judgedIntervals). The listing
+ * needs no pass of its own: an interval past its months limit is overdue whatever its meter says,
+ * and it ranks before every interval overdue by its meter alone (their months limit's date is
+ * later, or none), so while at least MACHINES_DUE_LISTED are overdue by date (years of lapsed
+ * customers make it so) they are the listing, read in order from
+ * service_intervals_business_months_due_idx. Only when fewer are is the rest ranked, by a second
+ * statement.
  */
 async function machinesDue(db: Db, week: Week): Promise<{ listed: MachineDue[]; total: number }> {
   const rows = await queryRows<IntervalRow & { sureCount: number; unsure: boolean | null }>(
     db,
-    sql`with statuses as (
-          select id, machine_id, due_on,
-                 greatest(
-                   case when due_on < ${week.end}::date then 3 when due_on = ${week.end}::date then 2
-                        -- days ≤ 30 or days ≤ interval days × 0.1, in whole numbers
-                        when 10 * (due_on - ${week.end}::date) <= greatest(300, due_on - last_done_on) then 1
-                        else 0 end,
-                   case when meter_left < 0 then 3 when meter_left = 0 then 2
-                        when meter_left <= meter_every * 0.1::float8 then 1 else 0 end,
-                   0) as urgency,
-                 invalid or coalesce(least(abs(meter_left), abs(meter_left - meter_every * 0.1::float8))
-                                       <= meter_slack, false) as unsure
-          from (
-            select si.id, si.machine_id, si.last_done_on, meter.every as meter_every,
-                   (si.last_done_on + si.every_months * interval '1 month')::date as due_on,
-                   si.last_done_meter + meter.every - meter.now as meter_left,
-                   1e-6::float8 * greatest(1, meter.now, si.last_done_meter + meter.every) as meter_slack,
-                   coalesce(least(si.every_km, si.every_hours, si.every_months) <= 0
-                            or least(si.last_done_meter, m.meter_reading) < 0
-                            or greatest(si.every_km, si.every_hours, si.last_done_meter, m.meter_reading)
-                                 >= 'Infinity', false) as invalid
-            from service_intervals si
-            join machines m on m.id = si.machine_id,
-            lateral (
-              select case when m.meter_read_at is null or m.meter_read_at < ${week.until} then m.meter_reading
-                     end as now,
-                     case m.meter_unit when 'h' then si.every_hours when 'km' then si.every_km
-                       else si.every_km / ${KM_PER_MILE}::float8 end as every
-            ) as meter
-            where si.business_id = ${week.businessId} and m.business_id = ${week.businessId}
-              and m.archived_at is null and si.last_done_on is not null
-            offset 0
-          ) as judged
-          offset 0
-        ), ranked as (
-          select count(*) filter (where not unsure)::int as sure_count,
-                 array_agg(id) filter (where unsure) as unsure_ids,
-                 (array_agg(id order by urgency desc, due_on asc nulls last, machine_id, id)
-                    filter (where not unsure))[1:${MACHINES_DUE_LISTED}] as top_ids
-          from statuses
-          where urgency > 0 or unsure
+    sql`with counted as (
+          select count(*) filter (where verdict = ${SURELY_DUE})::int as sure_count,
+                 array_agg(id) filter (where verdict = ${UNSURE}) as unsure_ids
+          from (${judgedIntervals(week)}) as judged
+        ), overdue_by_date as (
+          select si.id
+          from service_intervals si join machines m on m.id = si.machine_id
+          where si.business_id = ${week.businessId} and m.business_id = ${week.businessId}
+            and m.archived_at is null and si.months_due_on < ${week.end}::date
+            and not ${refused(sql`si`, sql`m.meter_reading`)}
+          order by si.months_due_on, si.machine_id, si.id
+          limit ${MACHINES_DUE_LISTED}
         )
-        select r.sure_count as "sureCount", si.id = any(r.unsure_ids) as unsure,
-               si.id, si.machine_id as "machineId", si.item, si.label, si.every_km as "everyKm",
-               si.every_hours as "everyHours", si.every_months as "everyMonths",
-               to_char(si.last_done_on, 'YYYY-MM-DD') as "lastDoneOn", si.last_done_meter as "lastDoneMeter",
-               m.make, m.model, m.meter_unit as "meterUnit", m.meter_reading as "meterReading",
-               m.meter_read_at < ${week.until} or m.meter_read_at is null as "meterKnown",
-               c.id as "customerId", c.name as "customerName"
-        from ranked r
-        left join service_intervals si on si.id = any(r.unsure_ids || r.top_ids)
+        select r.sure_count as "sureCount", si.id = any(r.unsure_ids) as unsure, ${intervalColumns(week)}
+        from counted r
+        left join service_intervals si on si.id = any(r.unsure_ids || array(select id from overdue_by_date))
         left join machines m on m.id = si.machine_id
         left join customers c on c.id = m.customer_id`,
   );
   let total = rows[0]?.sureCount ?? 0;
+  // With nothing due, the one row of counts is joined to no interval.
+  const seen: (IntervalRow & { unsure: boolean })[] = rows
+    .filter((row) => row.id !== null)
+    .map((row) => ({ ...row, unsure: row.unsure === true }));
+  // An unsure interval is overdue by date only when refused, which the listing leaves out: the two never meet.
+  const overdueByDate = seen.filter((row) => !row.unsure).length;
+  if (overdueByDate < MACHINES_DUE_LISTED) {
+    const rest = await queryRows<IntervalRow>(
+      db,
+      sql`select ${intervalColumns(week)}
+          from (${judgedIntervals(week)}) as judged
+          join service_intervals si on si.id = judged.id
+          join machines m on m.id = si.machine_id
+          join customers c on c.id = m.customer_id
+          where judged.verdict = ${SURELY_DUE}
+            and (judged.months_due_on >= ${week.end}::date or judged.months_due_on is null)
+          order by judged.urgency desc, judged.months_due_on asc nulls last, judged.machine_id, judged.id
+          limit ${MACHINES_DUE_LISTED - overdueByDate}`,
+    );
+    seen.push(...rest.map((row) => ({ ...row, unsure: false })));
+  }
   const due: MachineDue[] = [];
-  for (const row of rows) {
-    if (row.id === null) continue; // nothing due: the one row of counts, joined to no interval
+  for (const row of seen) {
     const judged = judge(row, week.end);
     // The evaluator has the last word on every interval it sees, counted by SQL or not.
     if (row.unsure && judged) total += 1;
@@ -269,6 +257,87 @@ async function machinesDue(db: Db, week: Week): Promise<{ listed: MachineDue[]; 
       a.serviceIntervalId - b.serviceIntervalId,
   );
   return { listed: due.slice(0, MACHINES_DUE_LISTED), total };
+}
+
+/** judgedIntervals' verdict on an interval: not due, due (counted and ranked by SQL), or unsure. */
+const NOT_DUE = sql.raw('0');
+const SURELY_DUE = sql.raw('1');
+const UNSURE = sql.raw('2');
+
+/**
+ * A stored value the evaluator refuses (service-interval.ts: a limit not positive or not finite, a
+ * meter negative or not finite; 'Infinity' ≤ NaN in PostgreSQL's float order), or a meter it may
+ * refuse (the machine's, which the evaluator only reads when known then).
+ */
+function refused(interval: SQL, meterReading: SQL): SQL {
+  return sql`coalesce(least(${interval}.every_km, ${interval}.every_hours, ${interval}.every_months) <= 0
+      or least(${interval}.last_done_meter, ${meterReading}) < 0
+      or greatest(${interval}.every_km, ${interval}.every_hours, ${interval}.last_done_meter, ${meterReading})
+           >= 'Infinity', false)`;
+}
+
+/**
+ * Every interval of a machine in use with lastDoneOn, and SQL's verdict on it for the end day:
+ * NOT_DUE, SURELY_DUE or UNSURE, and for the ranking, the urgency of its most urgent limit.
+ *
+ * - Past its months limit's date: overdue whatever the meter says (unsure if refused).
+ * - Else within a millionth of a meter limit (0 left, or the last tenth): unsure.
+ * - Else due when the months limit is due soon (days left ≤ 30 or ≤ a tenth of the interval's
+ *   days, in whole numbers) or the meter has at most the last tenth of its interval left; unsure
+ *   if refused. The evaluator cannot find due what SQL finds not due here: the only stored values
+ *   it accepts and SQL's refused() does not are a meter it does not read, which SQL reads as
+ *   unknown too.
+ *
+ * The meter as it stood, and the interval in its unit, are worked out once per row (the first
+ * `offset 0`), the verdict once per row (the second); a query that reads no urgency never works
+ * it out (PostgreSQL drops a subquery's unused outputs).
+ */
+function judgedIntervals(week: Week): SQL {
+  return sql`select id, machine_id, months_due_on,
+      case
+        when months_due_on < ${week.end}::date then case when ${refused(sql`standing`, sql`meter_reading`)} then ${UNSURE} else ${SURELY_DUE} end
+        when least(abs(meter_left), abs(meter_left - meter_every * 0.1::float8))
+               <= 1e-6::float8 * greatest(1, meter_now, last_done_meter + meter_every) then ${UNSURE}
+        when 10 * (months_due_on - ${week.end}::date) <= greatest(300, months_due_on - last_done_on)
+             or meter_left <= meter_every * 0.1::float8
+          then case when ${refused(sql`standing`, sql`meter_reading`)} then ${UNSURE} else ${SURELY_DUE} end
+        else ${NOT_DUE}
+      end as verdict,
+      greatest(
+        case when months_due_on = ${week.end}::date then 2
+             when 10 * (months_due_on - ${week.end}::date) <= greatest(300, months_due_on - last_done_on) then 1
+             else 0 end,
+        case when meter_left < 0 then 3 when meter_left = 0 then 2
+             when meter_left <= meter_every * 0.1::float8 then 1 else 0 end
+      ) as urgency
+    from (
+      select id, machine_id, last_done_on, months_due_on, every_km, every_hours, every_months,
+             last_done_meter, meter_reading, meter_now, meter_every,
+             last_done_meter + meter_every - meter_now as meter_left
+      from (
+        select si.id, si.machine_id, si.last_done_on, si.months_due_on, si.every_km, si.every_hours,
+               si.every_months, si.last_done_meter, m.meter_reading,
+               case when m.meter_read_at is null or m.meter_read_at < ${week.until} then m.meter_reading
+               end as meter_now,
+               case m.meter_unit when 'h' then si.every_hours when 'km' then si.every_km
+                 else si.every_km / ${KM_PER_MILE}::float8 end as meter_every
+        from service_intervals si join machines m on m.id = si.machine_id
+        where si.business_id = ${week.businessId} and m.business_id = ${week.businessId}
+          and m.archived_at is null and si.last_done_on is not null
+        offset 0
+      ) as read
+    ) as standing
+    offset 0`;
+}
+
+/** What judge() and the listing read of an interval `si`, its machine `m` and customer `c`. */
+function intervalColumns(week: Week): SQL {
+  return sql`si.id, si.machine_id as "machineId", si.item, si.label, si.every_km as "everyKm",
+    si.every_hours as "everyHours", si.every_months as "everyMonths",
+    to_char(si.last_done_on, 'YYYY-MM-DD') as "lastDoneOn", si.last_done_meter as "lastDoneMeter",
+    m.make, m.model, m.meter_unit as "meterUnit", m.meter_reading as "meterReading",
+    m.meter_read_at < ${week.until} or m.meter_read_at is null as "meterKnown",
+    c.id as "customerId", c.name as "customerName"`;
 }
 
 /** One interval as machinesDue reads it, with what the evaluator and the listing need. */
@@ -340,28 +409,26 @@ export async function weekReport(db: Db, actor: Actor, query: WeekReportQuery): 
     from: startOfDayIn(tz, query.start),
     until: startOfDayIn(tz, addCalendarDays(query.start, 7)),
   };
-  const [done, money, hours, collectedCents, balances, mileage, checks, machines] = await Promise.all([
-    jobsDone(db, actor, week),
-    revenue(db, week),
-    hoursBilled(db, week),
-    collected(db, week),
-    openBalances(db, week),
+  // One statement each on PGlite, which answers them in turn; a PostgreSQL pool runs them side by side.
+  const [figures, mileage, machines] = await Promise.all([
+    weekFigures(db, actor, week),
     mileageTotals(db, week.businessId, week.start, week.end),
-    checkVerdicts(db, week),
     machinesDue(db, week),
   ]);
   return {
     start: week.start,
     end: week.end,
     timezone: tz,
-    jobsDone: done,
-    hoursBilled: hours,
-    ...money,
-    collectedCents,
-    ...balances,
+    jobsDone: figures.jobsDone,
+    hoursBilled: figures.hoursBilled,
+    revenueCents: figures.revenueCents,
+    revenueByDay: figures.revenueByDay,
+    collectedCents: figures.collectedCents,
+    unpaid: figures.unpaid,
+    overdue: figures.overdue,
     miles: mileage.miles,
     deductionCents: mileage.deductionCents,
-    checks,
+    checks: figures.checks,
     machinesDue: machines.listed,
     machinesDueTotal: machines.total,
   };

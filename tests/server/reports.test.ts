@@ -394,7 +394,9 @@ describe('the machines coming due at scale and at their limits', () => {
       ]);
   });
 
-  for (const start of ['2026-11-09', '2026-11-16', '2026-11-24']) {
+  // In the week of 2020-03-09 only 14 of the 25 are overdue by date, so the listing's rest is ranked
+  // from the others (due that day, due soon, and those the meter alone makes overdue).
+  for (const start of ['2020-03-09', '2026-11-09', '2026-11-16', '2026-11-24']) {
     it(`lists the 20 the evaluator ranks first and counts all it finds due, week of ${start}`, async () => {
       const report = await week(start);
       const until = startOfDayIn(TZ, addCalendarDays(start, 7));

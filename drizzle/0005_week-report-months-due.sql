@@ -1,0 +1,2 @@
+ALTER TABLE "service_intervals" ADD COLUMN "months_due_on" date GENERATED ALWAYS AS ((last_done_on + every_months * interval '1 month')::date) STORED;--> statement-breakpoint
+CREATE INDEX "service_intervals_business_months_due_idx" ON "service_intervals" USING btree ("business_id","months_due_on","machine_id","id");
