@@ -279,7 +279,7 @@ async function benchBytes() {
       jsKb,
       { label: 'React + ReactDOM alone', value: reactKb, samples: [reactKb] },
       { max: 110 },
-      `${js.length} files the index.html loads (entry and modulepreloads, not lazy route chunks); ${rawKb(js).toFixed(0)} KB before gzip. gzip level 9.`,
+      `${js.length} file(s) the index.html loads (entry and modulepreloads, not lazy route chunks); ${rawKb(js).toFixed(0)} KB before gzip. gzip level 9.`,
     ),
     size(
       'dashboard-css',
