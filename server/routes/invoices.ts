@@ -11,7 +11,7 @@ import { parse } from '../http/validate';
 import { createInvoice, getInvoice, listInvoices, voidInvoice } from '../services/invoices';
 import type { RouteDeps } from './deps';
 
-export function invoicesRouter({ db, now }: RouteDeps) {
+export function invoicesRouter({ db, now, payments }: RouteDeps) {
   const router = Router();
   const one = `${INVOICES_PATH}/:id`;
 
@@ -31,7 +31,7 @@ export function invoicesRouter({ db, now }: RouteDeps) {
     const { id } = parse(IdParamsSchema, req.params, 'path');
     // The schema admits only { status: 'void' }: voiding is the one change an invoice takes here.
     parse(UpdateInvoiceInputSchema, req.body);
-    res.json(await voidInvoice(db, req.actor!, id, now()));
+    res.json(await voidInvoice(db, payments, req.actor!, id, now()));
   });
   return router;
 }

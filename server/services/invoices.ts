@@ -17,6 +17,7 @@ import type { Db } from '../db/client';
 import * as t from '../db/schema';
 import { ConflictError } from '../errors';
 import { decodeCursor, toPage } from '../http/pagination';
+import type { PaymentProvider } from '../payments/provider';
 import { recordAudit } from './audit';
 import { found, iso, scoped } from './scope';
 
@@ -348,8 +349,21 @@ export async function createInvoice(
  * books never hold a payment against a void invoice); the job goes back to complete to be billed
  * again.
  */
-export async function voidInvoice(db: Db, actor: Actor, id: number, now: Date): Promise<InvoiceDetail> {
-  return db.transaction(async (tx) => {
+/**
+ * Voids an invoice with nothing paid on it. Its card link is dropped with it and, once the void has
+ * committed, expired at the payment service, so the customer cannot pay what is no longer owed. A
+ * link the service will not expire (paid a moment before, its notice not yet here; the service
+ * down) is no loss: money for a void invoice is kept out of the books and logged for the owner to
+ * refund (card-payments.ts, "payment.unapplied").
+ */
+export async function voidInvoice(
+  db: Db,
+  payments: PaymentProvider,
+  actor: Actor,
+  id: number,
+  now: Date,
+): Promise<InvoiceDetail> {
+  const { detail, sessionId } = await db.transaction(async (tx) => {
     const business = await loadBusiness(tx, actor.businessId);
     const [row] = await tx
       .select()
@@ -366,7 +380,7 @@ export async function voidInvoice(db: Db, actor: Actor, id: number, now: Date): 
     }
     await tx
       .update(t.invoices)
-      .set({ status: 'void', voidedAt: now, updatedAt: now })
+      .set({ status: 'void', voidedAt: now, updatedAt: now, paymentLinkUrl: null, paymentSessionId: null })
       .where(eq(t.invoices.id, id));
     await moveJob(tx, actor, {
       jobId: invoice.jobId,
@@ -384,6 +398,15 @@ export async function voidInvoice(db: Db, actor: Actor, id: number, now: Date): 
       details: { number: invoice.number, totalCents: invoice.totalCents },
       at: now,
     });
-    return invoiceDetail(tx, actor, id, dayIn(business.timezone, now));
+    return {
+      detail: await invoiceDetail(tx, actor, id, dayIn(business.timezone, now)),
+      sessionId: invoice.paymentSessionId,
+    };
   });
+  if (sessionId && payments.available) {
+    await payments.expireCheckout(sessionId).catch(() => {
+      // Not expired: see above; the void stands either way.
+    });
+  }
+  return detail;
 }
