@@ -27,15 +27,17 @@ describe('after a broken setup', () => {
   it('never runs two', () => expect(1).toBe(1));
   it.skip('was skipped anyway', () => {});
 });`,
+  'setup-breaks.mjs': `export default () => { throw new Error('global setup broke'); };`,
   'import-breaks.test.ts': `import { it } from 'vitest';
 throw new Error('import broke');
 it('is never collected', () => {});`,
 };
 
-async function lastLine(only: string[]) {
+async function lastLine(only: string[], globalSetup?: string) {
   for (const [name, text] of Object.entries(files)) writeFileSync(path.join(dir, name), `${text}\n`);
   const config = path.join(dir, 'vitest.config.mjs');
-  writeFileSync(config, `export default { test: { include: ${JSON.stringify(only)} } };\n`);
+  const test = { include: only, ...(globalSetup ? { globalSetup: path.join(dir, globalSetup) } : {}) };
+  writeFileSync(config, `export default { test: ${JSON.stringify(test)} };\n`);
   const result = await execa(
     path.join(PROJECT_ROOT, 'node_modules/.bin/vitest'),
     [
@@ -62,6 +64,12 @@ describe('the closing summary line', () => {
     const { line, exitCode } = await lastLine(['hook-breaks.test.ts', 'import-breaks.test.ts']);
     // Two tests the hook stopped, one file that never got as far as its tests; the it.skip stays skipped.
     expect(line).toBe('0 passed, 3 failed, 1 skipped');
+    expect(exitCode).toBe(1);
+  });
+
+  it('counts a global setup that throws, so that no test runs, as a failure', async () => {
+    const { line, exitCode } = await lastLine(['passes.test.ts'], 'setup-breaks.mjs');
+    expect(line).toBe('0 passed, 1 failed, 0 skipped');
     expect(exitCode).toBe(1);
   });
 });

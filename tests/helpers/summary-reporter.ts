@@ -4,9 +4,13 @@
  *
  * Vitest reports the tests of a suite whose `beforeAll` threw as skipped, and a file that failed to
  * import as no tests at all; here both count as failed, so a broken setup can never read as green.
+ * An error outside every file (an unhandled rejection) counts as one failure each, and a run that
+ * failed with nothing else to show for it (a global setup that throws: no test runs at all) as one,
+ * so that "0 failed" never reads as green.
  * Only a test marked to skip (`it.skip`, `skipIf`, `todo`) counts as skipped.
  */
-import type { Reporter, TestCase, TestModule } from 'vitest/node';
+import type { SerializedError } from 'vitest';
+import type { Reporter, TestCase, TestModule, TestRunEndReason } from 'vitest/node';
 
 export interface Counts {
   passed: number;
@@ -42,8 +46,15 @@ export function countResults(testModules: ReadonlyArray<TestModule>): Counts {
 }
 
 export default class SummaryReporter implements Reporter {
-  onTestRunEnd(testModules: ReadonlyArray<TestModule>): void {
+  onTestRunEnd(
+    testModules: ReadonlyArray<TestModule>,
+    unhandledErrors: ReadonlyArray<SerializedError>,
+    reason: TestRunEndReason,
+  ): void {
     const { passed, failed, skipped } = countResults(testModules);
-    process.stdout.write(`\n${passed} passed, ${failed} failed, ${skipped} skipped\n`);
+    let total = failed + unhandledErrors.length;
+    // A global setup that throws reaches no reporter as an error, only as a run that failed.
+    if (reason === 'failed' && total === 0) total = 1;
+    process.stdout.write(`\n${passed} passed, ${total} failed, ${skipped} skipped\n`);
   }
 }
