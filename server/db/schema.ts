@@ -604,17 +604,56 @@ export const serviceIntervals = pgTable(
     monthsDueOn: date({ mode: 'string' }).generatedAlwaysAs(
       sql`(last_done_on + every_months * interval '1 month')::date`,
     ),
+    /*
+     * judgedBy, dueSoonOn and meterDueSince: where the interval stands with its machine's meter as
+     * last read, so the week report counts the intervals due on a day from indexes instead of
+     * judging every one on every request. Kept by the database (trigger service_intervals_standing,
+     * migration 0006, with the evaluator's rules: on every write of the interval, and of its
+     * machine's meter, unit or archiving); neither the app nor a restore writes them
+     * (KEPT_BY_DATABASE).
+     */
+    /**
+     * Who can judge the interval: 'database' (due_soon_on and meter_due_since below say when it is
+     * due), 'evaluator' (a stored value the evaluator refuses, or a meter within a millionth of a
+     * limit, where float arithmetic in SQL could land on the other side), or null (never done, or
+     * its machine archived: not judged at all).
+     */
+    judgedBy: text(),
+    /** From this day on its months limit makes it due soon or worse (null: no months limit, or not judged by the database). */
+    dueSoonOn: date({ mode: 'string' }),
+    /**
+     * Its machine's meter, as last read, makes it due soon or worse: when that reading was taken
+     * ('-infinity' when the machine's meter has no time), so a week that ended before it does not
+     * know it. Null: the meter does not make it due, or not judged by the database. A string, as
+     * '-infinity' is no JavaScript date.
+     */
+    meterDueSince: timestamp({ withTimezone: true, mode: 'string' }),
   },
   (t) => [
     index('service_intervals_machine_idx').on(t.machineId),
     // The week report's most urgent: the longest overdue by date first, in its listing order.
     index('service_intervals_business_months_due_idx').on(t.businessId, t.monthsDueOn, t.machineId, t.id),
+    // The week report's count of those due by date, and of those due by the meter alone (index-only).
+    index('service_intervals_business_due_soon_idx').on(t.businessId, t.dueSoonOn),
+    index('service_intervals_business_meter_due_idx').on(t.businessId, t.meterDueSince, t.dueSoonOn),
+    index('service_intervals_business_evaluator_idx')
+      .on(t.businessId)
+      .where(sql`${t.judgedBy} = 'evaluator'`),
+    check('service_intervals_judged_by_check', sql`${t.judgedBy} in ('database', 'evaluator')`),
     check(
       'service_intervals_some_limit_check',
       sql`${t.everyKm} is not null or ${t.everyHours} is not null or ${t.everyMonths} is not null`,
     ),
   ],
 );
+
+/**
+ * Columns the database keeps itself by trigger (not `generated always as`, which cannot read
+ * another table): a backup may carry them, a restore never writes them.
+ */
+export const KEPT_BY_DATABASE: Readonly<Record<string, readonly string[]>> = {
+  service_intervals: ['judged_by', 'due_soon_on', 'meter_due_since'],
+};
 
 export const reminders = pgTable(
   'reminders',

@@ -42,7 +42,10 @@ interface TableInfo {
   primaryKey: string;
   /** The identity column, whose sequence a restore moves past the restored ids. */
   identity: string | null;
-  /** Columns the database works out from the others (generated always as …): read, never written. */
+  /**
+   * Columns the database works out from the others (generated always as …, or kept by a trigger,
+   * schema.KEPT_BY_DATABASE): read, never written.
+   */
   computed: ReadonlySet<string>;
   /** Tables this one's foreign keys point at. */
   references: string[];
@@ -60,7 +63,10 @@ function describeTable(table: PgTable): TableInfo {
     columns: new Set(config.columns.map(sqlName)),
     primaryKey: sqlName(primary),
     identity: identity ? sqlName(identity) : null,
-    computed: new Set(config.columns.filter((column) => column.generated).map(sqlName)),
+    computed: new Set([
+      ...config.columns.filter((column) => column.generated).map(sqlName),
+      ...(schema.KEPT_BY_DATABASE[config.name] ?? []),
+    ]),
     references: config.foreignKeys.map((key) => getTableConfig(key.reference().foreignTable).name),
   };
 }

@@ -179,64 +179,69 @@ const URGENCY: Record<IntervalStatus, number> = { ok: 0, due_soon: 1, due: 2, ov
  * The most urgent MACHINES_DUE_LISTED are listed (status, then the months limit's date, then
  * machine and interval id) and all of them are counted.
  *
- * Ten years of customers leave thousands of intervals due, and judging each in JavaScript costs
- * more than the whole report may (about 10 µs each, and as much again to fetch the row), so the
- * counting and ranking happen in SQL with the evaluator's own rules (service-interval.ts,
- * statusFor: past the limit overdue, at it due, within 30 days or the last tenth of the interval
- * due soon; the most urgent limit decides). Where SQL's float arithmetic could land on the other
- * side of a meter limit from the evaluator's (within a millionth of it), or a stored value is one
- * the evaluator refuses, the interval is "unsure": SQL neither counts nor ranks it and the
- * evaluator judges it. The evaluator also judges every interval listed; its status, dates and
- * reason are what the report shows.
+ * Ten years of customers leave thousands of intervals due, and judging each on every request costs
+ * more than the whole report may, so the database keeps where each interval stands as it is written
+ * (service_intervals.judged_by, due_soon_on and meter_due_since: trigger service_intervals_standing,
+ * migration 0006, with the evaluator's rules): the day from which its months limit makes it due, and
+ * whether its machine's meter, as last read, does and since when. An interval is then due on the
+ * end day when that day is on or after due_soon_on, or the week ended after the meter reading that
+ * made it due; both are counted from indexes, never visiting the intervals. Where SQL's float
+ * arithmetic could land on the other side of a meter limit from the evaluator's, or a stored value
+ * is one the evaluator refuses, the interval is the evaluator's (judged_by 'evaluator'): SQL neither
+ * counts nor ranks it, and the evaluator judges it here. The evaluator also judges every interval
+ * listed; its status, dates and reason are what the report shows.
  *
- * The count reads every interval once, in one pass with no sort (judgedIntervals). The listing
- * needs no pass of its own: an interval past its months limit is overdue whatever its meter says,
- * and it ranks before every interval overdue by its meter alone (their months limit's date is
- * later, or none), so while at least MACHINES_DUE_LISTED are overdue by date (years of lapsed
- * customers make it so) they are the listing, read in order from
- * service_intervals_business_months_due_idx. Only when fewer are is the rest ranked, by a second
- * statement.
+ * The listing: an interval past its months limit is overdue whatever its meter says, and it ranks
+ * before every interval overdue by its meter alone (their months limit's date is later, or none),
+ * so while at least MACHINES_DUE_LISTED are overdue by date (years of lapsed customers make it so)
+ * they are the listing, read in order from service_intervals_business_months_due_idx. Only when
+ * fewer are is the rest ranked, by a second statement.
  */
 async function machinesDue(db: Db, week: Week): Promise<{ listed: MachineDue[]; total: number }> {
-  const rows = await queryRows<IntervalRow & { sureCount: number; unsure: boolean | null }>(
+  const business = week.businessId;
+  const rows = await queryRows<Nullable<IntervalRow> & { sureCount: number; unsure: boolean | null }>(
     db,
-    sql`with counted as (
-          select count(*) filter (where verdict = ${SURELY_DUE})::int as sure_count,
-                 array_agg(id) filter (where verdict = ${UNSURE}) as unsure_ids
-          from (${judgedIntervals(week)}) as judged
-        ), overdue_by_date as (
-          select si.id
-          from service_intervals si join machines m on m.id = si.machine_id
-          where si.business_id = ${week.businessId} and m.business_id = ${week.businessId}
-            and m.archived_at is null and si.months_due_on < ${week.end}::date
-            and not ${refused(sql`si`, sql`m.meter_reading`)}
-          order by si.months_due_on, si.machine_id, si.id
-          limit ${MACHINES_DUE_LISTED}
+    sql`with listed as (
+          select id from service_intervals where business_id = ${business} and judged_by = 'evaluator'
+          union all
+          (select id from service_intervals
+           where business_id = ${business} and judged_by = 'database' and months_due_on < ${week.end}::date
+           order by months_due_on, machine_id, id
+           limit ${MACHINES_DUE_LISTED})
         )
-        select r.sure_count as "sureCount", si.id = any(r.unsure_ids) as unsure, ${intervalColumns(week)}
-        from counted r
-        left join service_intervals si on si.id = any(r.unsure_ids || array(select id from overdue_by_date))
-        left join machines m on m.id = si.machine_id
-        left join customers c on c.id = m.customer_id`,
+        select (
+            (select count(*) from service_intervals
+             where business_id = ${business} and due_soon_on <= ${week.end}::date)
+            + (select count(*) from service_intervals
+               where business_id = ${business} and meter_due_since < ${week.until}
+                 and (due_soon_on > ${week.end}::date or due_soon_on is null))
+          )::int as "sureCount",
+          si.judged_by = 'evaluator' as unsure, ${intervalColumns(week)}
+        from (select) as counts
+        left join (
+          listed join service_intervals si on si.id = listed.id
+          join machines m on m.id = si.machine_id
+          join customers c on c.id = m.customer_id
+        ) on true`,
   );
   let total = rows[0]?.sureCount ?? 0;
-  // With nothing due, the one row of counts is joined to no interval.
+  // With nothing listed, the one row of counts is joined to no interval.
   const seen: (IntervalRow & { unsure: boolean })[] = rows
-    .filter((row) => row.id !== null)
+    .filter((row): row is typeof row & IntervalRow => row.id !== null)
     .map((row) => ({ ...row, unsure: row.unsure === true }));
-  // An unsure interval is overdue by date only when refused, which the listing leaves out: the two never meet.
+  // An interval of the evaluator's is not in the listing read by date: the two never meet.
   const overdueByDate = seen.filter((row) => !row.unsure).length;
   if (overdueByDate < MACHINES_DUE_LISTED) {
     const rest = await queryRows<IntervalRow>(
       db,
       sql`select ${intervalColumns(week)}
-          from (${judgedIntervals(week)}) as judged
-          join service_intervals si on si.id = judged.id
+          from service_intervals si
           join machines m on m.id = si.machine_id
           join customers c on c.id = m.customer_id
-          where judged.verdict = ${SURELY_DUE}
-            and (judged.months_due_on >= ${week.end}::date or judged.months_due_on is null)
-          order by judged.urgency desc, judged.months_due_on asc nulls last, judged.machine_id, judged.id
+          where si.business_id = ${business} and si.judged_by = 'database'
+            and (si.due_soon_on <= ${week.end}::date or si.meter_due_since < ${week.until})
+            and (si.months_due_on >= ${week.end}::date or si.months_due_on is null)
+          order by ${urgency(week)} desc, si.months_due_on asc nulls last, si.machine_id, si.id
           limit ${MACHINES_DUE_LISTED - overdueByDate}`,
     );
     seen.push(...rest.map((row) => ({ ...row, unsure: false })));
@@ -259,78 +264,25 @@ async function machinesDue(db: Db, week: Week): Promise<{ listed: MachineDue[]; 
   return { listed: due.slice(0, MACHINES_DUE_LISTED), total };
 }
 
-/** judgedIntervals' verdict on an interval: not due, due (counted and ranked by SQL), or unsure. */
-const NOT_DUE = sql.raw('0');
-const SURELY_DUE = sql.raw('1');
-const UNSURE = sql.raw('2');
+type Nullable<T> = { [K in keyof T]: T[K] | null };
 
 /**
- * A stored value the evaluator refuses (service-interval.ts: a limit not positive or not finite, a
- * meter negative or not finite; 'Infinity' ≤ NaN in PostgreSQL's float order), or a meter it may
- * refuse (the machine's, which the evaluator only reads when known then).
+ * The evaluator's status of an interval `si` of machine `m` judged by the database, as URGENCY
+ * ranks it, on the end day: its most urgent limit's (service-interval.ts, statusFor: past the
+ * limit overdue, at it due, within 30 days or the last tenth of the interval due soon), the meter
+ * read only when read before the week ended (or when is not known).
  */
-function refused(interval: SQL, meterReading: SQL): SQL {
-  return sql`coalesce(least(${interval}.every_km, ${interval}.every_hours, ${interval}.every_months) <= 0
-      or least(${interval}.last_done_meter, ${meterReading}) < 0
-      or greatest(${interval}.every_km, ${interval}.every_hours, ${interval}.last_done_meter, ${meterReading})
-           >= 'Infinity', false)`;
-}
-
-/**
- * Every interval of a machine in use with lastDoneOn, and SQL's verdict on it for the end day:
- * NOT_DUE, SURELY_DUE or UNSURE, and for the ranking, the urgency of its most urgent limit.
- *
- * - Past its months limit's date: overdue whatever the meter says (unsure if refused).
- * - Else within a millionth of a meter limit (0 left, or the last tenth): unsure.
- * - Else due when the months limit is due soon (days left ≤ 30 or ≤ a tenth of the interval's
- *   days, in whole numbers) or the meter has at most the last tenth of its interval left; unsure
- *   if refused. The evaluator cannot find due what SQL finds not due here: the only stored values
- *   it accepts and SQL's refused() does not are a meter it does not read, which SQL reads as
- *   unknown too.
- *
- * refused() is written into the two branches that need it rather than worked out once per row: most
- * rows never reach either, and on the large seed reading it for every row was measurably slower.
- *
- * The meter as it stood, and the interval in its unit, are worked out once per row (the first
- * `offset 0`), the verdict once per row (the second); a query that reads no urgency never works
- * it out (PostgreSQL drops a subquery's unused outputs).
- */
-function judgedIntervals(week: Week): SQL {
-  return sql`select id, machine_id, months_due_on,
-      case
-        when months_due_on < ${week.end}::date then case when ${refused(sql`standing`, sql`meter_reading`)} then ${UNSURE} else ${SURELY_DUE} end
-        when least(abs(meter_left), abs(meter_left - meter_every * 0.1::float8))
-               <= 1e-6::float8 * greatest(1, meter_now, last_done_meter + meter_every) then ${UNSURE}
-        when 10 * (months_due_on - ${week.end}::date) <= greatest(300, months_due_on - last_done_on)
-             or meter_left <= meter_every * 0.1::float8
-          then case when ${refused(sql`standing`, sql`meter_reading`)} then ${UNSURE} else ${SURELY_DUE} end
-        else ${NOT_DUE}
-      end as verdict,
-      greatest(
-        case when months_due_on = ${week.end}::date then 2
-             when 10 * (months_due_on - ${week.end}::date) <= greatest(300, months_due_on - last_done_on) then 1
-             else 0 end,
-        case when meter_left < 0 then 3 when meter_left = 0 then 2
-             when meter_left <= meter_every * 0.1::float8 then 1 else 0 end
-      ) as urgency
-    from (
-      select id, machine_id, last_done_on, months_due_on, every_km, every_hours, every_months,
-             last_done_meter, meter_reading, meter_now, meter_every,
-             last_done_meter + meter_every - meter_now as meter_left
-      from (
-        select si.id, si.machine_id, si.last_done_on, si.months_due_on, si.every_km, si.every_hours,
-               si.every_months, si.last_done_meter, m.meter_reading,
-               case when m.meter_read_at is null or m.meter_read_at < ${week.until} then m.meter_reading
-               end as meter_now,
-               case m.meter_unit when 'h' then si.every_hours when 'km' then si.every_km
-                 else si.every_km / ${KM_PER_MILE}::float8 end as meter_every
-        from service_intervals si join machines m on m.id = si.machine_id
-        where si.business_id = ${week.businessId} and m.business_id = ${week.businessId}
-          and m.archived_at is null and si.last_done_on is not null
-        offset 0
-      ) as read
-    ) as standing
-    offset 0`;
+function urgency(week: Week): SQL {
+  const every = sql`case m.meter_unit when 'h' then si.every_hours when 'km' then si.every_km
+    else si.every_km / ${KM_PER_MILE}::float8 end`;
+  const left = sql`(si.last_done_meter + ${every} - m.meter_reading)`;
+  return sql`greatest(
+      case when si.months_due_on < ${week.end}::date then 3 when si.months_due_on = ${week.end}::date then 2
+           when si.due_soon_on <= ${week.end}::date then 1 else 0 end,
+      case when m.meter_read_at >= ${week.until} then 0
+           when ${left} < 0 then 3 when ${left} = 0 then 2 when ${left} <= ${every} * 0.1::float8 then 1
+           else 0 end
+    )`;
 }
 
 /** What judge() and the listing read of an interval `si`, its machine `m` and customer `c`. */

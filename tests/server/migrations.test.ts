@@ -1,9 +1,14 @@
-import { readFileSync } from 'node:fs';
+import { cpSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { sql } from 'drizzle-orm';
 import { getTableConfig, PgTable } from 'drizzle-orm/pg-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { queryRows, type Database } from '../../server/db/client';
+import { queryRows, type Database, type Schema } from '../../server/db/client';
+import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator';
+import { migrate as migratePg } from 'drizzle-orm/node-postgres/migrator';
+import type { PgliteDatabase } from 'drizzle-orm/pglite';
+import type { NodePgDatabase } from 'drizzle-orm/node-postgres';
 import { migrate, MIGRATIONS_FOLDER } from '../../server/db/migrate';
 import * as schema from '../../server/db/schema';
 import { blankDatabase } from '../helpers/db';
@@ -89,5 +94,93 @@ describe('migrations on an empty database', () => {
     // tests CHECK constraints on the row before its foreign-key triggers run (from memory).
     expect(await attempt('approved', null)).toMatch(/estimates_decision_check/);
     expect(await attempt('sent', '2026-11-18T15:00:00Z')).toMatch(/estimates_decision_check/);
+  });
+});
+
+describe('an upgrade of a database in use', () => {
+  let database: Database;
+  beforeAll(async () => {
+    database = await blankDatabase();
+  });
+  afterAll(() => database.close());
+
+  /** Applies the journal's migrations up to and including `tag`, as a database made before the rest. */
+  async function migrateUpTo(tag: string) {
+    const journal = JSON.parse(
+      readFileSync(path.join(MIGRATIONS_FOLDER, 'meta', '_journal.json'), 'utf8'),
+    ) as {
+      entries: { tag: string }[];
+    };
+    const upTo = journal.entries.findIndex((entry) => entry.tag === tag);
+    expect(upTo).toBeGreaterThan(0);
+    const folder = mkdtempSync(path.join(tmpdir(), 'vanbay-migrations-'));
+    cpSync(MIGRATIONS_FOLDER, folder, { recursive: true });
+    writeFileSync(
+      path.join(folder, 'meta', '_journal.json'),
+      JSON.stringify({ ...journal, entries: journal.entries.slice(0, upTo + 1) }),
+    );
+    const config = { migrationsFolder: folder };
+    if (database.engine === 'pglite') await migratePglite(database.db as PgliteDatabase<Schema>, config);
+    else await migratePg(database.db as NodePgDatabase<Schema>, config);
+  }
+
+  it('works out where each service interval already stored stands (0006), and vacuums a PGlite database', async () => {
+    await migrateUpTo('0005_week-report-months-due');
+    await database.db.execute(sql`
+      insert into businesses (id, owner_name, labour_rate_cents, name, email, slug)
+        overriding system value values (1, 'Owner', 9000, 'Shop', 'shop@example.test', 'shop')`);
+    await database.db.execute(sql`
+      insert into customers (id, business_id, name) overriding system value values (1, 1, 'Customer')`);
+    // An hour meter at 95 h read on 2026-11-18, and an archived machine.
+    await database.db.execute(sql`
+      insert into machines (id, business_id, customer_id, kind, make, model, meter_unit, meter_reading, meter_read_at, archived_at)
+        overriding system value values
+        (1, 1, 1, 'atv', 'Tamarack', 'Meter 450', 'h', 95, '2026-11-18T15:00:00Z', null),
+        (2, 1, 1, 'atv', 'Tamarack', 'Sold 450', 'h', 10, null, '2026-06-01T00:00:00Z')`);
+    await database.db.execute(sql`
+      insert into service_intervals (business_id, machine_id, item, label, every_hours, every_months, last_done_on, last_done_meter)
+      values
+        -- 100 h or 12 months from 0 h on 2026-06-01: 5 h left, the last tenth, due by the meter;
+        -- the months limit (365 days) due soon from 36 days before 2027-06-01, 2027-04-26.
+        (1, 1, 'fuel_filter', 'Fuel filter', 100, 12, '2026-06-01', 0),
+        -- From 90 h: 95 h to go, not due by the meter.
+        (1, 1, 'oil', 'Oil', 100, 12, '2026-06-01', 90),
+        -- 50 h from 50 h, at 95 h: 5 h left, exactly the last tenth, a float away from either
+        -- side: the evaluator's to judge; and a meter the evaluator refuses (negative), its too.
+        (1, 1, 'spark_plug', 'Plug', 50, null, '2026-06-01', 50),
+        (1, 1, 'other', 'Belt', 100, null, '2026-06-01', -5),
+        -- Never done; and one on the archived machine: not judged.
+        (1, 1, 'in_tank_strainer', 'Strainer', null, 12, null, null),
+        (1, 2, 'fuel_filter', 'Fuel filter', 100, 12, '2026-06-01', 0)`);
+    await migrate(database);
+    const rows = await queryRows<{
+      label: string;
+      machine: number;
+      judged: string | null;
+      soon: string | null;
+      meter: string | null;
+    }>(
+      database.db,
+      sql`select label, machine_id as machine, judged_by as judged, to_char(due_soon_on, 'YYYY-MM-DD') as soon,
+            to_char(meter_due_since at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI') as meter
+          from service_intervals order by id`,
+    );
+    expect(rows).toEqual([
+      { label: 'Fuel filter', machine: 1, judged: 'database', soon: '2027-04-26', meter: '2026-11-18T15:00' },
+      { label: 'Oil', machine: 1, judged: 'database', soon: '2027-04-26', meter: null },
+      { label: 'Plug', machine: 1, judged: 'evaluator', soon: null, meter: null },
+      { label: 'Belt', machine: 1, judged: 'evaluator', soon: null, meter: null },
+      { label: 'Strainer', machine: 1, judged: null, soon: null, meter: null },
+      { label: 'Fuel filter', machine: 2, judged: null, soon: null, meter: null },
+    ]);
+    if (database.engine === 'pglite') {
+      // PGlite runs no autovacuum: the upgrade vacuumed the rewritten table, every page all-visible.
+      const [table] = await queryRows<{ pages: number; visible: number }>(
+        database.db,
+        sql`select relpages as pages, relallvisible as visible from pg_class where relname = 'service_intervals'`,
+      );
+      expect(table!.pages).toBeGreaterThan(0);
+      expect(table!.visible).toBe(table!.pages);
+    }
   });
 });

@@ -446,4 +446,84 @@ describe('the machines coming due at scale and at their limits', () => {
     expect(await statusOf(end, sql`last_done_on = '2019-01-01'`)).toBe('ok');
     expect(await statusOf(end, sql`every_km = 5000 and last_done_meter = 0`)).toBe('ok');
   });
+
+  it('follows a machine’s meter, its archiving and an interval’s edits as they are made', async () => {
+    // The database keeps where each interval stands as it is written (migration 0006); each change
+    // below goes through the API, and after each the report must agree with the evaluator's own
+    // count made afresh, and move by the hand count beside it.
+    const weeks = ['2026-11-09', '2026-11-16'] as const;
+    const totals = async () => {
+      const out: number[] = [];
+      for (const start of weeks) {
+        const report = await week(start);
+        const expected = await judgedByEvaluator(report.end, startOfDayIn(TZ, addCalendarDays(start, 7)));
+        expect(report.machinesDueTotal).toBe(expected.length);
+        out.push(report.machinesDueTotal);
+      }
+      return out;
+    };
+    const [lastWeek, thisWeek] = await totals();
+    const owner = as(api, 'owner');
+    const [customer] = await db().select().from(t.customers).limit(1);
+    const machine = await request(api.app)
+      .post('/api/machines')
+      .set(owner)
+      .send({
+        customerId: customer!.id,
+        kind: 'atv',
+        make: 'Tamarack',
+        model: 'Meter 450',
+        meterUnit: 'h',
+        meterReading: 10,
+      })
+      .expect(201);
+    const machineId = (machine.body as { id: number }).id;
+    const intervalPath = `/api/machines/${machineId}/intervals`;
+    // 100 h or 24 months from 0 h on 2026-06-01: at 10 h, 90 h and a year and a half to go.
+    const interval = await request(api.app)
+      .post(intervalPath)
+      .set(owner)
+      .send({
+        item: 'fuel_filter',
+        label: 'Fuel filter',
+        everyHours: 100,
+        everyMonths: 24,
+        lastDoneOn: '2026-06-01',
+        lastDoneMeter: 0,
+      })
+      .expect(201);
+    const intervalId = (interval.body as { id: number }).id;
+    expect(await totals()).toEqual([lastWeek, thisWeek]);
+    // Read at 95 h today (2026-11-18): 5 h left, the last tenth, due soon; the week of 11-09 had
+    // ended before the reading and cannot know it.
+    await request(api.app)
+      .patch(`/api/machines/${machineId}`)
+      .set(owner)
+      .send({ meterReading: 95 })
+      .expect(200);
+    expect(await totals()).toEqual([lastWeek, thisWeek! + 1]);
+    // A job at 130 h raises the meter: 30 h over, overdue, still one interval due.
+    await request(api.app)
+      .post('/api/jobs')
+      .set(owner)
+      .send({ customerId: customer!.id, machineId, complaint: 'Hard start when warm', meterReading: 130 })
+      .expect(201);
+    expect(await totals()).toEqual([lastWeek, thisWeek! + 1]);
+    // Done today at 130 h: 100 h to go again, not due in either week.
+    await request(api.app)
+      .patch(`${intervalPath}/${intervalId}`)
+      .set(owner)
+      .send({ lastDoneOn: '2026-11-18', lastDoneMeter: 130 })
+      .expect(200);
+    expect(await totals()).toEqual([lastWeek, thisWeek]);
+    await request(api.app)
+      .patch(`${intervalPath}/${intervalId}`)
+      .set(owner)
+      .send({ lastDoneOn: '2026-06-01', lastDoneMeter: 0 })
+      .expect(200);
+    expect(await totals()).toEqual([lastWeek, thisWeek! + 1]);
+    // Archived: its intervals are no longer judged.
+    await request(api.app).delete(`/api/machines/${machineId}`).set(owner).expect(204);
+    expect(await totals()).toEqual([lastWeek, thisWeek]);
+  });
 });
