@@ -16,7 +16,8 @@ import { round } from '../../shared/evaluators/types';
 import type { Actor } from '../auth/actor';
 import { queryRows, type Db } from '../db/client';
 import * as t from '../db/schema';
-import { addCalendarDays, loadBusiness, startOfDayIn } from './invoices';
+import { addCalendarDays, startOfDayIn } from './invoices';
+import { businessTimezone } from './service-intervals';
 import { scoped } from './scope';
 import { mileageTotals } from './trips';
 
@@ -355,10 +356,9 @@ function judge(row: IntervalRow, today: string): MachineDue | null {
 }
 
 export async function weekReport(db: Db, actor: Actor, query: WeekReportQuery): Promise<WeekReport> {
-  const business = await loadBusiness(db, actor.businessId);
-  const tz = business.timezone;
+  const tz = await businessTimezone(db, actor.businessId);
   const week: Week = {
-    businessId: business.id,
+    businessId: actor.businessId,
     start: query.start,
     end: addCalendarDays(query.start, 6),
     from: startOfDayIn(tz, query.start),
