@@ -10,8 +10,14 @@ const suite = {
   // Worker threads start and import faster than forked processes: about 137 s against 179 s
   // for the whole suite here. Nothing in the suite needs a process of its own.
   pool: 'threads' as const,
+  // Each worker keeps its module cache from one file to the next instead of importing the app
+  // afresh for every file: the whole suite 218 s against 255 s here (imports 46 s against 95 s).
+  // Every file makes its own app and database clone, mocks are restored and stubbed globals put
+  // back after each test, and the files pass in any order (checked with shuffled file orders).
+  isolate: false,
   hookTimeout: 120_000,
   restoreMocks: true,
+  unstubGlobals: true,
 };
 
 /**
