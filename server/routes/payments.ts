@@ -10,7 +10,7 @@ import { parse } from '../http/validate';
 import { listPayments, recordPayment } from '../services/payments';
 import type { RouteDeps } from './deps';
 
-export function paymentsRouter({ db, now }: RouteDeps) {
+export function paymentsRouter({ db, now, payments }: RouteDeps) {
   const router = Router();
 
   router.get(INVOICE_PAYMENTS_PATH, allow('payments', 'list'), async (req, res) => {
@@ -21,7 +21,7 @@ export function paymentsRouter({ db, now }: RouteDeps) {
   router.post(INVOICE_PAYMENTS_PATH, allow('payments', 'create'), async (req, res) => {
     const { id } = parse(IdParamsSchema, req.params, 'path');
     const input = parse(CreatePaymentInputSchema, req.body);
-    res.status(201).json(await recordPayment(db, req.actor!, id, input, now()));
+    res.status(201).json(await recordPayment(db, payments, req.actor!, id, input, now()));
   });
   return router;
 }

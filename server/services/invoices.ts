@@ -347,14 +347,11 @@ export async function createInvoice(
 /**
  * Voids an invoice nobody has paid anything on (money received must be refunded first, so the
  * books never hold a payment against a void invoice); the job goes back to complete to be billed
- * again.
- */
-/**
- * Voids an invoice with nothing paid on it. Its card link is dropped with it and, once the void has
- * committed, expired at the payment service, so the customer cannot pay what is no longer owed. A
- * link the service will not expire (paid a moment before, its notice not yet here; the service
- * down) is no loss: money for a void invoice is kept out of the books and logged for the owner to
- * refund (card-payments.ts, "payment.unapplied").
+ * again. Its card link is dropped with it and, once the void has committed, expired at the
+ * payment service, so the customer cannot pay what is no longer owed. A link the service will not
+ * expire (paid a moment before, its notice not yet here; the service down) is no loss: money for a
+ * void invoice is kept out of the books and logged for the owner to refund (card-payments.ts,
+ * "payment.unapplied").
  */
 export async function voidInvoice(
   db: Db,

@@ -14,6 +14,7 @@ import type { Db } from '../db/client';
 import * as t from '../db/schema';
 import { ConflictError } from '../errors';
 import { decodeCursor, toPage } from '../http/pagination';
+import type { PaymentProvider } from '../payments/provider';
 import { recordAudit } from './audit';
 import { dayIn, findInvoice, loadBusiness, toPayment } from './invoices';
 import { found, scoped } from './scope';
@@ -201,15 +202,23 @@ async function moveJobStatus(
   });
 }
 
-/** Cash, cheque, transfer or a card slip, recorded by hand by the owner (CreatePaymentInput). */
+/**
+ * Cash, cheque, transfer or a card slip, recorded by hand by the owner (CreatePaymentInput). What
+ * is owed changes, so the invoice's card link, made for the balance before, is dropped with it and,
+ * once the payment has committed, expired at the payment service: the customer cannot pay the old
+ * amount on top. The next send (or `POST …/payment-link`) makes one for what is left. A link the
+ * service will not expire (paid already, or the service down) changes nothing here: money that
+ * arrives on it anyway is recorded as owed back (applyPayment, fromProvider).
+ */
 export async function recordPayment(
   db: Db,
+  payments: PaymentProvider,
   actor: Actor,
   invoiceId: number,
   input: CreatePaymentInput,
   now: Date,
 ): Promise<RecordedPayment> {
-  return db.transaction(async (tx) => {
+  const { recorded, sessionId } = await db.transaction(async (tx) => {
     const business = await loadBusiness(tx, actor.businessId);
     const [row] = await tx
       .select()
@@ -229,9 +238,24 @@ export async function recordPayment(
       },
       now,
     );
+    if (invoice.paymentSessionId) {
+      await tx
+        .update(t.invoices)
+        .set({ paymentLinkUrl: null, paymentSessionId: null })
+        .where(and(eq(t.invoices.businessId, actor.businessId), eq(t.invoices.id, invoice.id)));
+    }
     return {
-      payment: toPayment(payment),
-      invoice: await findInvoice(tx, actor, invoiceId, dayIn(business.timezone, now)),
+      recorded: {
+        payment: toPayment(payment),
+        invoice: await findInvoice(tx, actor, invoiceId, dayIn(business.timezone, now)),
+      },
+      sessionId: invoice.paymentSessionId,
     };
   });
+  if (sessionId && payments.available) {
+    await payments.expireCheckout(sessionId).catch(() => {
+      // Not expired: see above; the payment stands either way.
+    });
+  }
+  return recorded;
 }
