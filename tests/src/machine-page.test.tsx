@@ -237,3 +237,85 @@ describe('for the customer', () => {
     expect(asked.some((path) => path.startsWith('/api/jobs/40/line-items'))).toBe(false);
   });
 });
+
+describe('adding a service interval', () => {
+  /** The POST bodies sent to machine 1's intervals, parsed. */
+  const posted = (fetchMock: ReturnType<typeof fakeApi>) =>
+    fetchMock.mock.calls
+      .filter(
+        ([input, init]) => init?.method === 'POST' && String(input).endsWith('/api/machines/1/intervals'),
+      )
+      .map(([, init]) => JSON.parse(String(init?.body)) as Record<string, unknown>);
+  const intervalForm = () => within(main().getByRole('form', { name: 'New service interval' }));
+
+  it('sends the limit on the machine’s own meter, the months, and when it was last done; the list reads again', async () => {
+    let listed = 0;
+    const added = {
+      ...quillbackIntervals.items[0]!,
+      id: 2,
+      item: 'oil' as const,
+      label: 'Engine oil and filter',
+    };
+    const fetchMock = machineApi('owner', {
+      'GET /api/machines/1/intervals': () => {
+        listed += 1;
+        return jsonResponse(
+          200,
+          listed === 1
+            ? quillbackIntervals
+            : { ...quillbackIntervals, items: [...quillbackIntervals.items, added] },
+        );
+      },
+      'POST /api/machines/1/intervals': () => jsonResponse(201, added),
+    });
+    await openMachine();
+    fireEvent.click(await main().findByRole('button', { name: 'Add an interval' }));
+    const form = intervalForm();
+    // Quillback's meter counts miles: the distance limit is asked for, and sent, in miles.
+    fireEvent.change(form.getByLabelText('Service'), { target: { value: 'oil' } });
+    fireEvent.change(form.getByLabelText('Every (mi)'), { target: { value: '4,000' } });
+    fireEvent.change(form.getByLabelText('Every (months)'), { target: { value: '12' } });
+    fireEvent.change(form.getByLabelText('Last done on'), { target: { value: '2026-06-01' } });
+    fireEvent.change(form.getByLabelText('Last done at (mi)'), { target: { value: '15210' } });
+    // Generic until the mechanic says the figures are the manual's.
+    expect(form.getByLabelText('Where the interval comes from')).toHaveProperty('value', 'generic');
+    fireEvent.change(form.getByLabelText('Where the interval comes from'), { target: { value: 'manual' } });
+    fireEvent.click(form.getByRole('button', { name: 'Add the interval' }));
+
+    expect(await main().findByText('Interval added.')).toBeTruthy();
+    expect(posted(fetchMock)).toEqual([
+      {
+        item: 'oil',
+        label: 'Engine oil and filter',
+        everyMiles: 4000,
+        everyMonths: 12,
+        lastDoneOn: '2026-06-01',
+        lastDoneMeter: 15210,
+        source: 'manual',
+      },
+    ]);
+    expect(await main().findByText('Engine oil and filter')).toBeTruthy();
+    expect(listed).toBe(2);
+  });
+
+  it('asks for a limit before anything is sent, and keeps the form out of a bookkeeper’s reach', async () => {
+    const fetchMock = machineApi('owner');
+    await openMachine();
+    fireEvent.click(await main().findByRole('button', { name: 'Add an interval' }));
+    const form = intervalForm();
+    fireEvent.click(form.getByRole('button', { name: 'Add the interval' }));
+    expect(
+      await form.findByText('Give a meter limit, a months limit, or both: whichever comes first is due.'),
+    ).toBeTruthy();
+    fireEvent.change(form.getByLabelText('Every (months)'), { target: { value: '1.5' } });
+    fireEvent.click(form.getByRole('button', { name: 'Add the interval' }));
+    expect(await form.findByText('Whole months, e.g. 12.')).toBeTruthy();
+    expect(posted(fetchMock)).toEqual([]);
+    cleanup();
+
+    machineApi('bookkeeper');
+    await openMachine();
+    expect(await main().findByRole('heading', { name: 'Service intervals' })).toBeTruthy();
+    expect(main().queryByRole('button', { name: 'Add an interval' })).toBeNull();
+  });
+});

@@ -16,6 +16,7 @@ import { MachineForm } from '../../features/machines/components/machine-form';
 import { MachineSummary } from '../../features/machines/components/machine-summary';
 import { ServiceHistory } from '../../features/machines/components/service-history';
 import type { HistoryLinks } from '../../features/machines/components/service-history';
+import { ServiceIntervalForm } from '../../features/machines/components/service-interval-form';
 import { ServiceIntervals } from '../../features/machines/components/service-intervals';
 import { SpecsForm, SpecsList } from '../../features/machines/components/specs-form';
 import { useSessionUser } from '../../features/session/api/queries';
@@ -100,12 +101,7 @@ function MachineRecord({ machine, role }: { machine: Machine; role: Role }) {
         </div>
 
         {isAllowed(role, 'serviceIntervals', 'list') ? (
-          <section aria-labelledby="intervals-heading" className="grid gap-3">
-            <h2 id="intervals-heading" className="text-2xl font-bold">
-              Service intervals
-            </h2>
-            <ServiceIntervals machineId={machine.id} />
-          </section>
+          <IntervalsSection machine={machine} mayAdd={isAllowed(role, 'serviceIntervals', 'create')} />
         ) : null}
 
         <section aria-labelledby="history-heading" className="grid gap-3">
@@ -183,6 +179,48 @@ function Details({
         </>
       )}
     </Panel>
+  );
+}
+
+/** The machine's service intervals, and for the workshop a form to add one. */
+function IntervalsSection({ machine, mayAdd }: { machine: Machine; mayAdd: boolean }) {
+  const [adding, setAdding] = useState(false);
+  const [added, setAdded] = useState(false);
+  return (
+    <section aria-labelledby="intervals-heading" className="grid gap-3">
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <h2 id="intervals-heading" className="text-2xl font-bold">
+          Service intervals
+        </h2>
+        {mayAdd && !adding ? (
+          <Button
+            variant="secondary"
+            onClick={() => {
+              setAdded(false);
+              setAdding(true);
+            }}
+          >
+            Add an interval
+          </Button>
+        ) : null}
+      </div>
+      {adding ? (
+        <Panel>
+          <ServiceIntervalForm
+            machine={machine}
+            onSaved={() => {
+              setAdding(false);
+              setAdded(true);
+            }}
+            onCancel={() => setAdding(false)}
+          />
+        </Panel>
+      ) : null}
+      <p role="status" className="text-base font-bold text-pass">
+        {added ? 'Interval added.' : ''}
+      </p>
+      <ServiceIntervals machineId={machine.id} mayAdd={mayAdd} />
+    </section>
   );
 }
 

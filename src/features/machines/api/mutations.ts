@@ -1,6 +1,11 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { machinePath, MACHINES_PATH, MachineSchema } from '../../../../shared/api/machines';
 import type { CreateMachineBody, UpdateMachineBody } from '../../../../shared/api/machines';
+import {
+  serviceIntervalsPath,
+  ServiceIntervalSchema,
+  type CreateServiceIntervalInput,
+} from '../../../../shared/api/service-intervals';
 import { jsonInit, request } from '../../../lib/api-client';
 import { machineQueries } from './queries';
 
@@ -33,5 +38,16 @@ export function useUpdateMachine(id: number) {
       }
       return Promise.all(stale);
     },
+  });
+}
+
+/** A new service interval joins the machine's list, judged by the server as it stands today. */
+export function useCreateServiceInterval(machineId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (input: CreateServiceIntervalInput) =>
+      request(serviceIntervalsPath(machineId), ServiceIntervalSchema, jsonInit('POST', input)),
+    onSuccess: () =>
+      queryClient.invalidateQueries({ queryKey: machineQueries.intervals(machineId).queryKey }),
   });
 }

@@ -78,7 +78,7 @@ const columns = col.columns([
 ]);
 
 /** The machine's service items and where each stands today, judged by the server. */
-export function ServiceIntervals({ machineId }: { machineId: number }) {
+export function ServiceIntervals({ machineId, mayAdd = false }: { machineId: number; mayAdd?: boolean }) {
   const intervals = useServiceIntervals(machineId);
   if (intervals.isPending) return <Loading>Loading the service intervals…</Loading>;
   if (intervals.isError) {
@@ -101,10 +101,10 @@ export function ServiceIntervals({ machineId }: { machineId: number }) {
       empty={
         <EmptyState title="No service intervals set">
           <p>
-            Without intervals this machine never comes due on the Reminders page. Set its fuel filter, in-tank
-            strainer and oil intervals from the service manual; the dashboard has no form for them yet, the
-            API takes them at{' '}
-            <code className="font-mono font-bold">POST /api/machines/{machineId}/intervals</code>.
+            Without intervals this machine never comes due on the Reminders page.{' '}
+            {mayAdd
+              ? 'Add its fuel filter, in-tank strainer and oil intervals from the service manual with “Add an interval”.'
+              : 'The workshop sets its fuel filter, in-tank strainer and oil intervals from the service manual.'}
           </p>
         </EmptyState>
       }
