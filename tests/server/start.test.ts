@@ -7,9 +7,12 @@ import { afterAll, describe, expect, it } from 'vitest';
 
 const dataDir = mkdtempSync(path.join(tmpdir(), 'vanbay-start-'));
 
-/** Starts `npm start`'s entry point as its own process and waits for the URL it prints. */
+/**
+ * Starts what `npm start` runs (`node --import tsx server/index.ts`: one process, so a signal
+ * reaches the server itself) and waits for the URL it prints.
+ */
 async function start(): Promise<{ child: ResultPromise; url: string }> {
-  const child = execa('node', ['node_modules/tsx/dist/cli.mjs', 'server/index.ts'], {
+  const child = execa('node', ['--import', 'tsx', 'server/index.ts'], {
     env: { VANBAY_DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', VANBAY_REQUEST_LOG: 'off' },
     reject: false,
   });
@@ -71,8 +74,7 @@ describe('one server per data dir', () => {
     VANBAY_SEED: 'none',
     VANBAY_REQUEST_LOG: 'off',
   };
-  const run = () =>
-    execa('node', ['node_modules/tsx/dist/cli.mjs', 'server/index.ts'], { env, reject: false });
+  const run = () => execa('node', ['--import', 'tsx', 'server/index.ts'], { env, reject: false });
 
   // A fresh data dir with VANBAY_SEED=none: one first start (initdb is the slow part) serves both.
   it('starts empty with VANBAY_SEED=none, takes over a lock left by a dead process, refuses a second live server', async () => {
@@ -82,9 +84,9 @@ describe('one server per data dir', () => {
     await new Promise<void>((resolve) =>
       first.stdout!.on('data', (c: Buffer) => /running at/.test(String(c)) && resolve()),
     );
-    // tsx runs the server in a child process, so the lock names that child, not `first.pid`.
+    // The lock names the live server: the process started, as `npm start` runs it.
     const holder = Number(readFileSync(path.join(dir, 'server.pid'), 'utf8').trim());
-    expect(holder).not.toBe(99_999_999);
+    expect(holder).toBe(first.pid);
     expect(() => process.kill(holder, 0)).not.toThrow();
 
     const second = await run();
