@@ -74,6 +74,20 @@ export interface PaymentProvider {
   verifyWebhook(rawBody: Buffer, signatureHeader: string | undefined): PaymentEvent;
 }
 
+/**
+ * Once a change that drops an invoice's card link has committed (a void, money taken by hand):
+ * the session is expired at the service so its old amount cannot be paid. A session the service
+ * will not expire (paid already, the service down) is no failure of the change: money that still
+ * arrives on it is handled as it lands (card-payments.ts).
+ */
+export async function expireDroppedCheckout(
+  provider: PaymentProvider,
+  sessionId: string | null,
+): Promise<void> {
+  if (!sessionId || !provider.available) return;
+  await provider.expireCheckout(sessionId).catch(() => {});
+}
+
 export class WebhookSignatureError extends HttpError {
   constructor(reason: string) {
     super(400, 'bad_signature', `The webhook signature does not verify: ${reason}`);

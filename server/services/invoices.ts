@@ -17,7 +17,7 @@ import type { Db } from '../db/client';
 import * as t from '../db/schema';
 import { ConflictError } from '../errors';
 import { decodeCursor, toPage } from '../http/pagination';
-import type { PaymentProvider } from '../payments/provider';
+import { expireDroppedCheckout, type PaymentProvider } from '../payments/provider';
 import { recordAudit } from './audit';
 import { found, iso, scoped } from './scope';
 
@@ -400,10 +400,6 @@ export async function voidInvoice(
       sessionId: invoice.paymentSessionId,
     };
   });
-  if (sessionId && payments.available) {
-    await payments.expireCheckout(sessionId).catch(() => {
-      // Not expired: see above; the void stands either way.
-    });
-  }
+  await expireDroppedCheckout(payments, sessionId);
   return detail;
 }

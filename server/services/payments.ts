@@ -14,7 +14,7 @@ import type { Db } from '../db/client';
 import * as t from '../db/schema';
 import { ConflictError } from '../errors';
 import { decodeCursor, toPage } from '../http/pagination';
-import type { PaymentProvider } from '../payments/provider';
+import { expireDroppedCheckout, type PaymentProvider } from '../payments/provider';
 import { recordAudit } from './audit';
 import { dayIn, findInvoice, loadBusiness, toPayment } from './invoices';
 import { found, scoped } from './scope';
@@ -252,10 +252,6 @@ export async function recordPayment(
       sessionId: invoice.paymentSessionId,
     };
   });
-  if (sessionId && payments.available) {
-    await payments.expireCheckout(sessionId).catch(() => {
-      // Not expired: see above; the payment stands either way.
-    });
-  }
+  await expireDroppedCheckout(payments, sessionId);
   return recorded;
 }
