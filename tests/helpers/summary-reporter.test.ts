@@ -27,6 +27,11 @@ describe('after a broken setup', () => {
   it('never runs two', () => expect(1).toBe(1));
   it.skip('was skipped anyway', () => {});
 });`,
+  'leaks.test.ts': `import { it, expect } from 'vitest';
+it('passes but leaves a rejection behind', () => {
+  void Promise.reject(new TypeError('left behind'));
+  expect(1).toBe(1);
+});`,
   'setup-breaks.mjs': `export default () => { throw new Error('global setup broke'); };`,
   'import-breaks.test.ts': `import { it } from 'vitest';
 throw new Error('import broke');
@@ -50,7 +55,8 @@ async function lastLine(only: string[], globalSetup?: string) {
     ],
     { reject: false, env: { CI: '1' } },
   );
-  return { line: result.stdout.trim().split('\n').at(-1), exitCode: result.exitCode };
+  const lines = result.stdout.trim().split('\n');
+  return { line: lines.at(-1), before: lines.at(-2), exitCode: result.exitCode };
 }
 
 describe('the closing summary line', () => {
@@ -64,6 +70,13 @@ describe('the closing summary line', () => {
     const { line, exitCode } = await lastLine(['hook-breaks.test.ts', 'import-breaks.test.ts']);
     // Two tests the hook stopped, one file that never got as far as its tests; the it.skip stays skipped.
     expect(line).toBe('0 passed, 3 failed, 1 skipped');
+    expect(exitCode).toBe(1);
+  });
+
+  it('counts an unhandled rejection as a failure and says what it was just above the counts', async () => {
+    const { line, before, exitCode } = await lastLine(['leaks.test.ts']);
+    expect(line).toBe('1 passed, 1 failed, 0 skipped');
+    expect(before).toMatch(/^unhandled: TypeError: left behind \(while leaks\.test\.ts ran, at leaks\.test\.ts:3:\d+\)$/);
     expect(exitCode).toBe(1);
   });
 

@@ -8,9 +8,13 @@
  * failed with nothing else to show for it (a global setup that throws: no test runs at all) as one,
  * so that "0 failed" never reads as green.
  * Only a test marked to skip (`it.skip`, `skipIf`, `todo`) counts as skipped.
+ *
+ * Each unhandled error also gets a line of its own just above the counts (what it said, the file that
+ * was running, the first frame of the project's own code), since a CI log is often read from its tail.
  */
+import path from 'node:path';
 import type { SerializedError } from 'vitest';
-import type { Reporter, TestCase, TestModule, TestRunEndReason } from 'vitest/node';
+import type { Reporter, TestCase, TestModule, TestRunEndReason, Vitest } from 'vitest/node';
 
 export interface Counts {
   passed: number;
@@ -45,16 +49,38 @@ export function countResults(testModules: ReadonlyArray<TestModule>): Counts {
   return counts;
 }
 
+/** `unhandled: Error: message (while tests/x.test.ts ran, at server/y.ts:12:3)`, on one line. */
+export function describeUnhandled(error: SerializedError, root: string): string {
+  const file = typeof error.VITEST_TEST_PATH === 'string' ? error.VITEST_TEST_PATH : null;
+  const ours = (error.stack ?? '')
+    .split('\n')
+    .map((line) => /\(?((?:file:\/\/)?\/[^\s()]+:\d+:\d+)\)?\s*$/.exec(line.trim())?.[1])
+    .find((frame) => frame && frame.replace('file://', '').startsWith(root) && !frame.includes('node_modules'));
+  const where = [
+    file ? `while ${path.relative(root, file)} ran` : null,
+    ours ? `at ${path.relative(root, ours.replace('file://', ''))}` : null,
+  ].filter(Boolean);
+  const said = `${error.name ?? 'Error'}: ${String(error.message ?? '').split('\n')[0]}`;
+  return `unhandled: ${said}${where.length ? ` (${where.join(', ')})` : ''}`;
+}
+
 export default class SummaryReporter implements Reporter {
+  private root = process.cwd();
+
+  onInit(vitest: Vitest): void {
+    this.root = vitest.config.root;
+  }
+
   onTestRunEnd(
     testModules: ReadonlyArray<TestModule>,
     unhandledErrors: ReadonlyArray<SerializedError>,
     reason: TestRunEndReason,
   ): void {
     const { passed, failed, skipped } = countResults(testModules);
+    const said = unhandledErrors.map((error) => `${describeUnhandled(error, this.root)}\n`).join('');
     let total = failed + unhandledErrors.length;
     // A global setup that throws reaches no reporter as an error, only as a run that failed.
     if (reason === 'failed' && total === 0) total = 1;
-    process.stdout.write(`\n${passed} passed, ${total} failed, ${skipped} skipped\n`);
+    process.stdout.write(`\n${said}${passed} passed, ${total} failed, ${skipped} skipped\n`);
   }
 }
