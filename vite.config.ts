@@ -3,9 +3,14 @@ import react from '@vitejs/plugin-react';
 import tailwindcss from '@tailwindcss/vite';
 import { CLIENT_OUT_DIR } from './server/config.ts';
 
+/** Files about the PostgreSQL engine itself, with nothing to prove on PGlite. */
+const POSTGRES_ONLY = ['tests/server/postgres-pool.test.ts'];
+const NOT_TESTS = ['**/node_modules/**', '**/.git/**'];
+
 /** Every test file, on PGlite (the engine a van's laptop runs). */
 const suite = {
   include: ['tests/**/*.test.{ts,tsx}'],
+  exclude: [...NOT_TESTS, ...POSTGRES_ONLY],
   testTimeout: 30_000,
   // Worker threads start and import faster than forked processes: about 137 s against 179 s
   // for the whole suite here. Nothing in the suite needs a process of its own.
@@ -43,7 +48,9 @@ const POSTGRES_FILES = [
   'tests/server/trips.test.ts',
   'tests/server/reports.test.ts',
   'tests/server/backup.test.ts',
+  'tests/server/postgres-pool.test.ts',
 ];
+
 const postgresUrl = process.env.VANBAY_TEST_DATABASE_URL?.trim();
 
 /** The API's own port while `npm run dev` serves the dashboard on the public one. */
@@ -99,6 +106,7 @@ export default defineConfig({
                 ...suite,
                 name: 'api-postgres',
                 include: POSTGRES_FILES,
+                exclude: NOT_TESTS,
                 // cloneDatabase() reads it; global-setup.ts builds the templates this project clones.
                 provide: { databaseEngine: 'postgres' as const },
               },

@@ -34,8 +34,12 @@ export function fromPglite(client: PGlite): Database {
 export async function openDatabase(options: DatabaseOptions): Promise<Database> {
   if (options.engine === 'postgres') {
     const pool = new pg.Pool({ connectionString: options.url, max: 10 });
+    // A connection that dies while idle (the server restarted, an admin ended it) is dropped from
+    // the pool and the next query opens a new one; without a listener its 'error' would be thrown
+    // as an uncaught exception and stop the whole server.
+    pool.on('error', (error) => console.error(`database connection lost while idle: ${error.message}`));
     const db = drizzlePg({ client: pool, schema, casing: 'snake_case' });
-    return { db, engine: 'postgres', close: () => pool.end() };
+    return { db, engine: 'postgres', close: () => endPool(pool) };
   }
   if (options.dataDir) mkdirSync(options.dataDir, { recursive: true });
   const client = await PGlite.create({
@@ -43,6 +47,32 @@ export async function openDatabase(options: DatabaseOptions): Promise<Database> 
     ...(options.loadDataDir ? { loadDataDir: options.loadDataDir } : {}),
   });
   return fromPglite(client);
+}
+
+/**
+ * Ends the pool once every connection has closed at the server. `pool.end()` alone resolves as soon
+ * as it has asked each connection to end, while the server may still hold them: whatever comes
+ * next (dropping the database, a new server on the same one) would find them open, and a connection
+ * ended from that side then reports an error on its way out. A connection that never says it has
+ * gone does not hold a shutdown for more than a few seconds.
+ */
+async function endPool(pool: pg.Pool): Promise<void> {
+  let open = pool.totalCount;
+  const allClosed = new Promise<void>((resolve) => {
+    const timer = setTimeout(resolve, 5_000);
+    timer.unref();
+    const done = () => {
+      clearTimeout(timer);
+      resolve();
+    };
+    if (open === 0) return done();
+    pool.on('remove', () => {
+      open -= 1;
+      if (open === 0) done();
+    });
+  });
+  await pool.end();
+  await allClosed;
 }
 
 /** DATABASE_URL wins; otherwise PGlite in the data dir. */
