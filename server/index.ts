@@ -198,9 +198,14 @@ function printWelcome(url: string, config: ServerConfig, engine: string) {
 }
 
 async function main() {
+  // What we print to can go before we do: `npm start | tee server.log`, then Ctrl-C stops tee as
+  // well. A write to that closed pipe (EPIPE) would otherwise throw and end the process before the
+  // database is closed and the data dir unlocked; with no reader left there is nothing to tell.
+  for (const stream of [process.stdout, process.stderr]) stream.on('error', () => {});
   const config = readConfig();
   const running = await startServer({ config });
-  printWelcome(running.url, config, running.database.engine);
+  // Listening for the signals before saying where we run: whoever waits for that line (a script,
+  // the tests) may stop us the moment it appears.
   const shutdown = (signal: string) => {
     console.log(`\n${signal}: closing the database and stopping.`);
     running.stop().then(
@@ -213,6 +218,7 @@ async function main() {
   };
   process.once('SIGINT', () => shutdown('SIGINT'));
   process.once('SIGTERM', () => shutdown('SIGTERM'));
+  printWelcome(running.url, config, running.database.engine);
 }
 
 if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {

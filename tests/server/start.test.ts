@@ -52,14 +52,21 @@ describe('the server process', () => {
     expect(result.stdout).toMatch(/closing the database/);
   }, 60_000);
 
-  it('keeps the data across a restart and seeds nothing twice', async () => {
+  it('keeps the data across a restart, seeds nothing twice, and stops on Ctrl-C with its output pipe gone', async () => {
     const before = await counts();
     expect(before.businesses).toBe(1);
     expect(before.jobs).toBeGreaterThan(30);
     const { child, url } = await start();
     expect((await fetch(`${url}/api/health`)).status).toBe(200);
+    // `npm start | tee server.log`, then Ctrl-C: tee stops too, so the pipe's reader is gone before
+    // the server says it is stopping. It must still close the database and let go of the data dir.
+    child.stdout!.destroy();
     child.kill('SIGINT');
-    expect((await child).exitCode).toBe(0);
+    const stopped = await child;
+    expect(stopped.signal).toBeUndefined();
+    expect(stopped.stderr).not.toMatch(/EPIPE/);
+    expect(stopped.exitCode).toBe(0);
+    expect(existsSync(path.join(dataDir, 'server.pid'))).toBe(false);
     expect(await counts()).toEqual(before);
   }, 60_000);
 });
