@@ -10,6 +10,27 @@ export const MIGRATIONS_FOLDER = fileURLToPath(new URL('../../drizzle', import.m
 
 /** Applies every migration in drizzle/ that the database has not seen; safe to run at each start. */
 export async function migrate(database: Database): Promise<void> {
+  try {
+    await applyMigrations(database);
+  } catch (error) {
+    throw readable(error);
+  }
+}
+
+/**
+ * What the database said, instead of drizzle's "Failed query: " and the whole migration's SQL: a
+ * migration that refuses a database on purpose (RAISE EXCEPTION, SQLSTATE P0001) says what to do in
+ * its own words; any other failure says it was the upgrade. The migrations are one transaction,
+ * so either way nothing was applied.
+ */
+function readable(error: unknown): unknown {
+  const cause = error instanceof Error ? error.cause : undefined;
+  if (!(cause instanceof Error)) return error;
+  if ((cause as { code?: unknown }).code === 'P0001') return new Error(cause.message, { cause: error });
+  return new Error(`The database upgrade failed, and changed nothing: ${cause.message}`, { cause: error });
+}
+
+async function applyMigrations(database: Database): Promise<void> {
   const config = { migrationsFolder: MIGRATIONS_FOLDER };
   if (database.engine === 'pglite') {
     const before = await appliedMigrations(database);

@@ -463,6 +463,10 @@ export const invoices = pgTable(
       .where(sql`${t.balanceCents} > 0`),
     index('invoices_customer_idx').on(t.customerId),
     index('invoices_job_idx').on(t.jobId),
+    // A job is billed on one invoice at a time: voiding it frees the job to be billed again.
+    uniqueIndex('invoices_job_live_key')
+      .on(t.jobId)
+      .where(sql`${t.status} <> 'void'`),
     check('invoices_balance_check', sql`${t.balanceCents} = ${t.totalCents} - ${t.paidCents}`),
   ],
 );

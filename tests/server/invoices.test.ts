@@ -329,6 +329,27 @@ describe('voiding an invoice', () => {
       .expect(409);
   });
 
+  it('is held by the database too: a second live invoice for a job is refused, a void one is not', async () => {
+    const invoice = await freshInvoice(api);
+    const copy = (number: number, status: 'issued' | 'void') =>
+      db()
+        .execute(
+          sql`insert into invoices (business_id, number, job_id, customer_id, status, issued_on, due_on,
+                subtotal_cents, tax_cents, total_cents, paid_cents, balance_cents, tax_rate_ppm, tax_rounding, terms)
+              select business_id, ${number}, job_id, customer_id, ${status}, issued_on, due_on, subtotal_cents,
+                tax_cents, total_cents, paid_cents, balance_cents, tax_rate_ppm, tax_rounding, terms
+              from invoices where id = ${invoice.id}`,
+        )
+        .then(
+          () => 'stored',
+          (e: Error & { cause?: Error }) => String(e.cause?.message ?? e.message),
+        );
+    const next = (await lastNumber()) + 1_000;
+    expect(await copy(next, 'issued')).toMatch(/invoices_job_live_key/);
+    expect(await copy(next + 1, 'void')).toBe('stored');
+    await db().delete(t.invoices).where(eq(t.invoices.number, next + 1));
+  });
+
   it('refuses to void once anything is paid (409)', async () => {
     const invoice = await freshInvoice(api);
     await request(api.app)

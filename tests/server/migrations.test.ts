@@ -124,6 +124,43 @@ describe('an upgrade of a database in use', () => {
     else await migratePg(database.db as NodePgDatabase<Schema>, config);
   }
 
+  it('stops at a job billed on two live invoices (0007), says which, and applies nothing', async () => {
+    await migrateUpTo('0005_week-report-months-due');
+    await database.db.execute(sql`
+      insert into businesses (id, owner_name, labour_rate_cents, name, email, slug)
+        overriding system value values (2, 'Owner', 9000, 'Other shop', 'other@example.test', 'other')`);
+    await database.db.execute(sql`
+      insert into customers (id, business_id, name) overriding system value values (2, 2, 'Customer')`);
+    await database.db.execute(sql`
+      insert into machines (id, business_id, customer_id, kind, make, model, meter_unit)
+        overriding system value values (3, 2, 2, 'atv', 'Tamarack', 'Billed 450', 'h')`);
+    await database.db.execute(sql`
+      insert into jobs (id, business_id, customer_id, machine_id, complaint, status)
+        overriding system value values (1, 2, 2, 3, 'Hard start', 'complete'), (2, 2, 2, 3, 'No idle', 'complete')`);
+    // Job 2 billed twice: once void, once live (as voiding and billing again leaves it); job 1 twice live.
+    const invoice = (number: number, job: number, status: string) => sql`
+      insert into invoices (business_id, number, job_id, customer_id, status, issued_on, due_on, subtotal_cents,
+          tax_cents, total_cents, paid_cents, balance_cents, tax_rate_ppm, tax_rounding)
+        values (2, ${number}, ${job}, 2, ${status}, '2026-11-18', '2026-12-02', 1000, 0, 1000, 0, 1000, 0, 'per_invoice')`;
+    await database.db.execute(invoice(1, 2, 'void'));
+    await database.db.execute(invoice(2, 2, 'issued'));
+    await database.db.execute(invoice(3, 1, 'issued'));
+    await database.db.execute(invoice(4, 1, 'issued'));
+
+    await expect(migrate(database)).rejects.toThrow(
+      /^Job 1 is billed on more than one invoice that is not void \(numbers 3, 4\): void all but one, then start Vanbay again\.$/,
+    );
+    // The upgrade is one transaction: not even 0006 (before the refusal) stayed.
+    const standing = await queryRows<{ n: number }>(
+      database.db,
+      sql`select count(*)::int as n from information_schema.columns where table_name = 'service_intervals' and column_name = 'judged_by'`,
+    );
+    expect(standing[0]!.n).toBe(0);
+
+    // As the owner would: void one, and the next start upgrades.
+    await database.db.execute(sql`update invoices set status = 'void' where number = 4 and business_id = 2`);
+  });
+
   it('works out where each service interval already stored stands (0006), and vacuums a PGlite database', async () => {
     await migrateUpTo('0005_week-report-months-due');
     await database.db.execute(sql`
