@@ -1,6 +1,6 @@
 import { TZDate } from '@date-fns/tz';
 import { format } from 'date-fns';
-import { and, desc, eq, lt } from 'drizzle-orm';
+import { and, desc, eq, inArray, lt } from 'drizzle-orm';
 import type { ListResponse } from '../../shared/api/common';
 import type {
   CreateServiceIntervalInput,
@@ -227,6 +227,36 @@ export async function updateServiceInterval(
       .set({ ...next, updatedAt: now })
       .where(eq(t.serviceIntervals.id, row.id))
       .returning();
+    // Done again, later than it last was: the round its open reminder was about is over, so the
+    // reminder closes as done (as marking the reminder done records the service). Only a later
+    // date: a correction of the old one leaves the round as it was.
+    if (input.lastDoneOn !== undefined && (row.lastDoneOn === null || input.lastDoneOn > row.lastDoneOn)) {
+      const closed = await tx
+        .update(t.reminders)
+        .set({ status: 'done' })
+        .where(
+          and(
+            eq(t.reminders.businessId, actor.businessId),
+            eq(t.reminders.serviceIntervalId, row.id),
+            inArray(t.reminders.status, ['pending', 'sent']),
+          ),
+        )
+        .returning({ id: t.reminders.id });
+      await recordAudit(tx, {
+        businessId: actor.businessId,
+        actorId: actor.userId,
+        action: 'service_interval.done',
+        entityType: 'service_interval',
+        entityId: row.id,
+        details: {
+          machineId: machine.id,
+          lastDoneOn: input.lastDoneOn,
+          lastDoneMeter: updated!.lastDoneMeter,
+          remindersClosed: closed.map((r) => r.id),
+        },
+        at: now,
+      });
+    }
     return toServiceInterval(updated!, machine, today);
   });
 }

@@ -178,6 +178,59 @@ describe('service intervals: changes', () => {
     expect(relabelled.body).toMatchObject({ label: 'Fuel filter (in-line)', everyKm: null, everyMonths: 12 });
   });
 
+  it('closes the open reminder when the service is recorded done later, audited; a correction back leaves it', async () => {
+    const created = await create({
+      item: 'oil',
+      label: 'Engine oil',
+      everyMonths: 6,
+      lastDoneOn: '2026-03-01',
+      lastDoneMeter: 16_000,
+    });
+    const reminder = await request(api.app)
+      .post('/api/reminders')
+      .set(as(api, 'owner'))
+      .send({ serviceIntervalId: created.id })
+      .expect(201);
+    const status = async () => {
+      const [row] = await api.database.db
+        .select({ status: t.reminders.status })
+        .from(t.reminders)
+        .where(eq(t.reminders.id, reminder.body.id));
+      return row!.status;
+    };
+    expect(await status()).toBe('pending');
+
+    // A correction of the old date (earlier) is not a new service: the round stays open.
+    await request(api.app)
+      .patch(`${path(bikeId)}/${created.id}`)
+      .set(as(api, 'helper'))
+      .send({ lastDoneOn: '2026-02-27' })
+      .expect(200);
+    expect(await status()).toBe('pending');
+
+    await request(api.app)
+      .patch(`${path(bikeId)}/${created.id}`)
+      .set(as(api, 'helper'))
+      .send({ lastDoneOn: '2026-11-18', lastDoneMeter: 18_420 })
+      .expect(200);
+    expect(await status()).toBe('done');
+    const audits = await api.database.db
+      .select()
+      .from(t.auditEvents)
+      .where(
+        and(eq(t.auditEvents.action, 'service_interval.done'), eq(t.auditEvents.entityId, String(created.id))),
+      );
+    expect(audits.map((a) => a.details)).toEqual([
+      { machineId: bikeId, lastDoneOn: '2026-11-18', lastDoneMeter: 18_420, remindersClosed: [reminder.body.id] },
+    ]);
+    // The next round may be reminded afresh.
+    await request(api.app)
+      .post('/api/reminders')
+      .set(as(api, 'owner'))
+      .send({ serviceIntervalId: created.id })
+      .expect(201);
+  });
+
   it('refuses bad bodies with 400 and changes nothing', async () => {
     const before = await intervalRows();
     const bad: object[] = [

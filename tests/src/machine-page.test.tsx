@@ -319,3 +319,66 @@ describe('adding a service interval', () => {
     expect(main().queryByRole('button', { name: 'Add an interval' })).toBeNull();
   });
 });
+
+describe('recording a service done', () => {
+  const patched = (fetchMock: ReturnType<typeof fakeApi>) =>
+    fetchMock.mock.calls
+      .filter(([input, init]) => init?.method === 'PATCH' && String(input).endsWith('/api/machines/1/intervals/1'))
+      .map(([, init]) => JSON.parse(String(init?.body)) as Record<string, unknown>);
+
+  it('sends the day and the meter (the machine’s own reading unless changed); the list reads again', async () => {
+    let listed = 0;
+    const done = {
+      ...quillbackIntervals.items[0]!,
+      lastDoneOn: '2026-11-17',
+      lastDoneMeter: 18_400,
+      state: { ...quillbackIntervals.items[0]!.state, status: 'ok' as const, verdict: 'pass' as const, reason: 'Not due' },
+    };
+    const fetchMock = machineApi('helper', {
+      'GET /api/machines/1/intervals': () => {
+        listed += 1;
+        return jsonResponse(200, listed === 1 ? quillbackIntervals : { ...quillbackIntervals, items: [done] });
+      },
+      'PATCH /api/machines/1/intervals/1': () => jsonResponse(200, done),
+    });
+    await openMachine();
+    fireEvent.click(await main().findByRole('button', { name: 'Record Fuel filter done' }));
+    const form = within(main().getByRole('form', { name: 'Fuel filter done' }));
+    // The machine's meter as last read (18 420 mi in the sample) until the mechanic says otherwise;
+    // left blank, the old one (13 870 mi) would stay.
+    expect(form.getByLabelText('Meter then (mi)')).toHaveProperty('value', '18420');
+    expect(form.getByText('Left blank, it stays at 13,870 mi, as last recorded.')).toBeTruthy();
+    fireEvent.change(form.getByLabelText('Done on'), { target: { value: '2026-11-17' } });
+    fireEvent.change(form.getByLabelText('Meter then (mi)'), { target: { value: '18,400' } });
+    fireEvent.click(form.getByRole('button', { name: 'Record it done' }));
+
+    expect(await main().findByText(/^Fuel filter: recorded done on /)).toBeTruthy();
+    expect(patched(fetchMock)).toEqual([{ lastDoneOn: '2026-11-17', lastDoneMeter: 18_400 }]);
+    await waitFor(() => expect(listed).toBe(2));
+    expect(main().queryByRole('form', { name: 'Fuel filter done' })).toBeNull();
+  });
+
+  it('sends no meter when it is left blank, refuses a bad one before sending, and is not offered to a bookkeeper', async () => {
+    const fetchMock = machineApi('owner', {
+      'PATCH /api/machines/1/intervals/1': () => jsonResponse(200, quillbackIntervals.items[0]),
+    });
+    await openMachine();
+    fireEvent.click(await main().findByRole('button', { name: 'Record Fuel filter done' }));
+    const form = within(main().getByRole('form', { name: 'Fuel filter done' }));
+    fireEvent.change(form.getByLabelText('Meter then (mi)'), { target: { value: 'lots' } });
+    fireEvent.click(form.getByRole('button', { name: 'Record it done' }));
+    expect(await form.findByText('A number, e.g. 18420.')).toBeTruthy();
+    expect(patched(fetchMock)).toEqual([]);
+    fireEvent.change(form.getByLabelText('Meter then (mi)'), { target: { value: '' } });
+    fireEvent.click(form.getByRole('button', { name: 'Record it done' }));
+    expect(await main().findByText(/^Fuel filter: recorded done on /)).toBeTruthy();
+    expect(patched(fetchMock)).toHaveLength(1);
+    expect(Object.keys(patched(fetchMock)[0]!)).toEqual(['lastDoneOn']);
+    cleanup();
+
+    machineApi('bookkeeper');
+    await openMachine();
+    expect(await main().findByText('Fuel filter')).toBeTruthy();
+    expect(main().queryByRole('button', { name: 'Record Fuel filter done' })).toBeNull();
+  });
+});

@@ -1,8 +1,10 @@
-import { useState } from 'react';
+import { useQueryClient } from '@tanstack/react-query';
+import { useCallback, useState } from 'react';
 import { Link, useParams } from 'react-router';
 import { machineDisplayName } from '../../../shared/api/machines';
 import type { Machine } from '../../../shared/api/machines';
 import { isAllowed } from '../../../shared/api/policy';
+import type { ServiceInterval } from '../../../shared/api/service-intervals';
 import type { Role } from '../../../shared/api/users';
 import { Button } from '../../components/ui/button';
 import { EmptyState } from '../../components/ui/empty-state';
@@ -10,15 +12,18 @@ import { LoadFailure, Loading } from '../../components/ui/load-failure';
 import { PageHeading } from '../../components/ui/page-heading';
 import { Panel } from '../../components/ui/panel';
 import { ApiError } from '../../lib/api-client';
+import { formatCalendarDate } from '../../lib/format';
 import { useCustomer } from '../../features/customers/api/queries';
 import { useMachine } from '../../features/machines/api/queries';
 import { MachineForm } from '../../features/machines/components/machine-form';
 import { MachineSummary } from '../../features/machines/components/machine-summary';
 import { ServiceHistory } from '../../features/machines/components/service-history';
 import type { HistoryLinks } from '../../features/machines/components/service-history';
+import { ServiceDoneForm } from '../../features/machines/components/service-done-form';
 import { ServiceIntervalForm } from '../../features/machines/components/service-interval-form';
 import { ServiceIntervals } from '../../features/machines/components/service-intervals';
 import { SpecsForm, SpecsList } from '../../features/machines/components/specs-form';
+import { reminderQueries } from '../../features/reminders/api/queries';
 import { useSessionUser } from '../../features/session/api/queries';
 import { labelOf, sectionAt } from '../layout/sections';
 import { paths, pathTo } from '../paths';
@@ -101,7 +106,11 @@ function MachineRecord({ machine, role }: { machine: Machine; role: Role }) {
         </div>
 
         {isAllowed(role, 'serviceIntervals', 'list') ? (
-          <IntervalsSection machine={machine} mayAdd={isAllowed(role, 'serviceIntervals', 'create')} />
+          <IntervalsSection
+            machine={machine}
+            mayAdd={isAllowed(role, 'serviceIntervals', 'create')}
+            mayRecord={isAllowed(role, 'serviceIntervals', 'update')}
+          />
         ) : null}
 
         <section aria-labelledby="history-heading" className="grid gap-3">
@@ -183,9 +192,24 @@ function Details({
 }
 
 /** The machine's service intervals, and for the workshop a form to add one. */
-function IntervalsSection({ machine, mayAdd }: { machine: Machine; mayAdd: boolean }) {
+function IntervalsSection({
+  machine,
+  mayAdd,
+  mayRecord,
+}: {
+  machine: Machine;
+  mayAdd: boolean;
+  mayRecord: boolean;
+}) {
+  const queryClient = useQueryClient();
   const [adding, setAdding] = useState(false);
-  const [added, setAdded] = useState(false);
+  const [recording, setRecording] = useState<ServiceInterval | null>(null);
+  const [said, setSaid] = useState('');
+  const record = useCallback((interval: ServiceInterval) => {
+    setSaid('');
+    setAdding(false);
+    setRecording(interval);
+  }, []);
   return (
     <section aria-labelledby="intervals-heading" className="grid gap-3">
       <div className="flex flex-wrap items-center justify-between gap-3">
@@ -196,7 +220,8 @@ function IntervalsSection({ machine, mayAdd }: { machine: Machine; mayAdd: boole
           <Button
             variant="secondary"
             onClick={() => {
-              setAdded(false);
+              setSaid('');
+              setRecording(null);
               setAdding(true);
             }}
           >
@@ -210,16 +235,32 @@ function IntervalsSection({ machine, mayAdd }: { machine: Machine; mayAdd: boole
             machine={machine}
             onSaved={() => {
               setAdding(false);
-              setAdded(true);
+              setSaid('Interval added.');
             }}
             onCancel={() => setAdding(false)}
           />
         </Panel>
       ) : null}
+      {recording ? (
+        <Panel>
+          <ServiceDoneForm
+            key={recording.id}
+            machine={machine}
+            interval={recording}
+            onSaved={({ lastDoneOn }) => {
+              setRecording(null);
+              setSaid(`${recording.label}: recorded done on ${formatCalendarDate(lastDoneOn)}.`);
+              // Its reminder for the round closed with it: the due list reads again.
+              void queryClient.invalidateQueries({ queryKey: reminderQueries.all() });
+            }}
+            onCancel={() => setRecording(null)}
+          />
+        </Panel>
+      ) : null}
       <p role="status" className="text-base font-bold text-pass">
-        {added ? 'Interval added.' : ''}
+        {said}
       </p>
-      <ServiceIntervals machineId={machine.id} mayAdd={mayAdd} />
+      <ServiceIntervals machineId={machine.id} mayAdd={mayAdd} onRecord={mayRecord ? record : undefined} />
     </section>
   );
 }

@@ -5,6 +5,7 @@ import {
   serviceIntervalsPath,
   ServiceIntervalSchema,
   type CreateServiceIntervalInput,
+  type UpdateServiceIntervalInput,
 } from '../../../../shared/api/service-intervals';
 import { jsonInit, request } from '../../../lib/api-client';
 import { machineQueries } from './queries';
@@ -47,6 +48,22 @@ export function useCreateServiceInterval(machineId: number) {
   return useMutation({
     mutationFn: (input: CreateServiceIntervalInput) =>
       request(serviceIntervalsPath(machineId), ServiceIntervalSchema, jsonInit('POST', input)),
+    onSuccess: () =>
+      queryClient.invalidateQueries({ queryKey: machineQueries.intervals(machineId).queryKey }),
+  });
+}
+
+export type ServiceDone = { intervalId: number } & Pick<UpdateServiceIntervalInput, 'lastDoneOn' | 'lastDoneMeter'>;
+
+/**
+ * A service recorded done: the server judges the interval afresh and closes the reminder of the
+ * round it ends. The machine's intervals re-read here; the route says what else went stale.
+ */
+export function useRecordServiceDone(machineId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ intervalId, ...input }: ServiceDone) =>
+      request(`${serviceIntervalsPath(machineId)}/${intervalId}`, ServiceIntervalSchema, jsonInit('PATCH', input)),
     onSuccess: () =>
       queryClient.invalidateQueries({ queryKey: machineQueries.intervals(machineId).queryKey }),
   });

@@ -1,6 +1,8 @@
+import { useMemo } from 'react';
 import type { IntervalStatus } from '../../../../shared/api/reminders';
 import type { ServiceInterval } from '../../../../shared/api/service-intervals';
 import { convert } from '../../../../shared/units';
+import { Button } from '../../../components/ui/button';
 import { dataColumns, DataTable } from '../../../components/ui/data-table';
 import { EmptyState } from '../../../components/ui/empty-state';
 import { LoadFailure, Loading } from '../../../components/ui/load-failure';
@@ -77,9 +79,42 @@ const columns = col.columns([
   }),
 ]);
 
-/** The machine's service items and where each stands today, judged by the server. */
-export function ServiceIntervals({ machineId, mayAdd = false }: { machineId: number; mayAdd?: boolean }) {
+/**
+ * The machine's service items and where each stands today, judged by the server; with `onRecord`,
+ * each row offers to record the service done.
+ */
+export function ServiceIntervals({
+  machineId,
+  mayAdd = false,
+  onRecord,
+}: {
+  machineId: number;
+  mayAdd?: boolean;
+  onRecord?: (interval: ServiceInterval) => void;
+}) {
   const intervals = useServiceIntervals(machineId);
+  const shownColumns = useMemo(
+    () =>
+      onRecord
+        ? [
+            ...columns,
+            col.display({
+              id: 'record',
+              header: 'Done again?',
+              cell: ({ row }) => (
+                <Button
+                  variant="secondary"
+                  aria-label={`Record ${row.original.label} done`}
+                  onClick={() => onRecord(row.original)}
+                >
+                  Record done
+                </Button>
+              ),
+            }),
+          ]
+        : columns,
+    [onRecord],
+  );
   if (intervals.isPending) return <Loading>Loading the service intervals…</Loading>;
   if (intervals.isError) {
     return (
@@ -95,7 +130,7 @@ export function ServiceIntervals({ machineId, mayAdd = false }: { machineId: num
     <DataTable
       caption="Service intervals"
       hideCaption
-      columns={columns}
+      columns={shownColumns}
       rows={intervals.data.items}
       getRowId={(interval) => String(interval.id)}
       empty={
