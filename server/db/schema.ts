@@ -701,6 +701,11 @@ export const outbox = pgTable(
       .default(sql`'[]'::jsonb`),
     status: mailStatusEnum().notNull().default('queued'),
     attempts: integer().notNull().default(0),
+    /**
+     * When the latest attempt claimed the row. Still `queued` long after it, the attempt was cut
+     * off (the server stopped mid-send) and the retry pass takes the row up again.
+     */
+    attemptedAt: tstz(),
     lastError: text(),
     idempotencyKey: text().notNull(),
     invoiceId: integer().references(() => invoices.id, { onDelete: 'set null' }),

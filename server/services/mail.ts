@@ -4,7 +4,7 @@
  * the row by bumping `attempts` from the value it read — two senders never both win the claim,
  * so a message is handed to SMTP at most once per claim and never again once `sent`.
  * A failed attempt keeps the row (`failed`, `lastError`); `retryFailedMail` tries it again with
- * backoff until it goes. Attachments are not stored (the column keeps names and sizes only), so
+ * backoff until it goes, and takes up an attempt the server was stopped in the middle of. Attachments are not stored (the column keeps names and sizes only), so
  * each attempt renders them again from the record they belong to.
  */
 import { and, asc, eq, gt, inArray, like, or, sql } from 'drizzle-orm';
@@ -30,6 +30,12 @@ export const RETRY_BASE_MS = 60_000;
 export const RETRY_MAX_MS = 60 * 60_000;
 /** A row queued but never attempted this long (its sender died before trying) is picked up by the retry pass. */
 export const UNTRIED_AFTER_MS = 2 * 60_000;
+/**
+ * An attempt still under way this long after it claimed its row was cut off: the server stopped
+ * mid-send (killed, the van's battery gone). SMTP's own waits end such an attempt within about a
+ * minute (server/mail/mailer.ts TIMEOUTS), so ten minutes cannot catch one still running.
+ */
+export const INTERRUPTED_AFTER_MS = 10 * 60_000;
 /** Rows looked at per retry pass; the rest wait for the next pass. */
 const RETRY_BATCH = 50;
 /** SMTP replies can be long; the outbox keeps the first part. */
@@ -50,15 +56,24 @@ export function nextAttemptAt(row: Pick<Row, 'createdAt' | 'attempts'>): Date {
   return new Date(row.createdAt.getTime() + wait);
 }
 
+/**
+ * Queued after an attempt claimed it, and for longer than any attempt runs: the attempt was cut
+ * off. It may have reached the SMTP server before the cut, but the message keeps its Message-ID, so
+ * a receiver that de-duplicates sees one; left alone it would never go, and no send could replace
+ * it. A row claimed before attempts were timed (no `attemptedAt`) counts as cut off too.
+ */
+function interrupted(row: Row, now: Date): boolean {
+  if (row.status !== 'queued' || row.attempts === 0) return false;
+  return row.attemptedAt === null || row.attemptedAt.getTime() + INTERRUPTED_AFTER_MS <= now.getTime();
+}
+
 function isDue(row: Row, now: Date): boolean {
   if (row.status === 'failed') return nextAttemptAt(row) <= now;
-  // Queued with attempts > 0 is an attempt under way (or cut off mid-send): it may have gone out,
-  // so it is never picked up here.
-  return (
-    row.status === 'queued' &&
-    row.attempts === 0 &&
-    row.createdAt.getTime() + UNTRIED_AFTER_MS <= now.getTime()
-  );
+  if (row.status !== 'queued') return false;
+  // Never tried: its sender died before the first attempt. Tried and still queued: an attempt is
+  // under way, unless it was cut off long ago.
+  if (row.attempts === 0) return row.createdAt.getTime() + UNTRIED_AFTER_MS <= now.getTime();
+  return interrupted(row, now);
 }
 
 // ---- Queue and deliver ----------------------------------------------------------------------
@@ -120,7 +135,7 @@ async function attemptMail(
 ): Promise<{ row: Row; attempted: boolean }> {
   const [claimed] = await db
     .update(t.outbox)
-    .set({ attempts: sql`${t.outbox.attempts} + 1`, status: 'queued' })
+    .set({ attempts: sql`${t.outbox.attempts} + 1`, status: 'queued', attemptedAt: now })
     .where(
       and(
         eq(t.outbox.id, seen.id),
@@ -220,8 +235,8 @@ export interface RetryResult {
 }
 
 /**
- * One pass over the mail that is due another try (failed and past its backoff, or queued and never
- * tried), oldest first. Safe to run alongside requests and other passes: each attempt claims its row.
+ * One pass over the mail that is due another try (failed and past its backoff, queued and never
+ * tried, or an attempt cut off long ago), oldest first. Safe to run alongside requests and other passes: each attempt claims its row.
  */
 export async function retryFailedMail(db: Db, mailer: Mailer, now: Date): Promise<RetryResult> {
   const result: RetryResult = { attempted: 0, sent: 0, failed: 0 };
@@ -234,7 +249,7 @@ export async function retryFailedMail(db: Db, mailer: Mailer, now: Date): Promis
       .where(
         and(
           gt(t.outbox.id, after),
-          or(eq(t.outbox.status, 'failed'), and(eq(t.outbox.status, 'queued'), eq(t.outbox.attempts, 0))),
+          inArray(t.outbox.status, ['failed', 'queued']),
         ),
       )
       .orderBy(asc(t.outbox.id))
@@ -324,7 +339,7 @@ export async function sendInvoiceMail(
       ),
     )
     .orderBy(asc(t.outbox.id));
-  const waiting = resendGate(earlier, invoice.sentAt !== null, options.again, `Invoice ${label}`);
+  const waiting = resendGate(earlier, invoice.sentAt !== null, options.again, `Invoice ${label}`, now);
   if (waiting) return toOutboxItem(await deliverMail(db, mailer, waiting, now, { actor }));
 
   const business = await loadBusiness(db, actor.businessId);
@@ -441,7 +456,7 @@ export async function sendReminderMail(
       ),
     )
     .orderBy(asc(t.outbox.id));
-  const waiting = resendGate(earlier, reminder.status === 'sent', options.again, 'This reminder');
+  const waiting = resendGate(earlier, reminder.status === 'sent', options.again, 'This reminder', now);
   if (waiting) return toOutboxItem(await deliverMail(db, mailer, waiting, now, { actor }));
 
   const business = await loadBusiness(db, actor.businessId);
@@ -487,7 +502,13 @@ export async function sendReminderMail(
  * waiting → 409 unless `again`; with `again`, a failed mail still waiting is the one to try now
  * (returned) rather than a second copy, and an attempt under way is left alone (409).
  */
-export function resendGate(earlier: Row[], markedSent: boolean, again: boolean, what: string): Row | null {
+export function resendGate(
+  earlier: Row[],
+  markedSent: boolean,
+  again: boolean,
+  what: string,
+  now: Date,
+): Row | null {
   if (earlier.length === 0 && !markedSent) return null;
   if (!again) {
     throw new ConflictError(`${what} was already sent; send with ?again=true to send it once more.`, {
@@ -495,7 +516,7 @@ export function resendGate(earlier: Row[], markedSent: boolean, again: boolean, 
     });
   }
   const pending = earlier.filter((r) => r.status !== 'sent');
-  const underWay = pending.find((r) => r.status === 'queued' && r.attempts > 0);
+  const underWay = pending.find((r) => r.status === 'queued' && r.attempts > 0 && !interrupted(r, now));
   if (underWay) throw new ConflictError(`${what} is being sent right now.`, { mailId: underWay.id });
   return pending.at(-1) ?? null;
 }

@@ -89,7 +89,7 @@ export async function mailJobDocument(
       ),
     )
     .orderBy(asc(t.outbox.id));
-  const waiting = resendGate(earlier, document.markedSent, options.again, document.what);
+  const waiting = resendGate(earlier, document.markedSent, options.again, document.what, now);
   const pdf = await document.render();
   const rendered: OutgoingAttachment[] = [
     { filename: pdf.filename, contentType: 'application/pdf', content: pdf.bytes },

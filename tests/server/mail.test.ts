@@ -209,6 +209,51 @@ describe('when SMTP fails', () => {
     expect(await outboxRows(failing, invoice.id)).toHaveLength(1);
   });
 
+  it('takes up an attempt the server was stopped in, once no attempt could still be running, and sends it once', async () => {
+    const invoice = await freshInvoice(failing);
+    await sendInvoice(failing, invoice.id).expect(202);
+    // What a server killed mid-send leaves: its claim (attempt 2, queued) and nothing after it.
+    const claimedAt = new Date(failing.clock.now.getTime() + 60 * 60_000);
+    await failing.database.db
+      .update(t.outbox)
+      .set({ status: 'queued', attempts: 2, attemptedAt: claimedAt })
+      .where(eq(t.outbox.invoiceId, invoice.id));
+    const mine = () => back.messages.filter((m) => m.subject.includes(pad(invoice.number)));
+    const at = (minutes: number) => new Date(claimedAt.getTime() + minutes * 60_000);
+
+    // Five minutes on, it could still be under way: neither the retry pass nor a send again touches it.
+    await retryFailedMail(failing.database.db, backMailer, at(5));
+    expect(mine()).toHaveLength(0);
+    failing.clock.set(at(5));
+    const refused = await sendInvoice(failing, invoice.id, '?again=true').expect(409);
+    expect(refused.body.error.message).toMatch(/is being sent right now/);
+
+    // Ten minutes on (INTERRUPTED_AFTER_MS), no attempt can still be running: the pass sends it.
+    await retryFailedMail(failing.database.db, backMailer, at(10));
+    expect(mine()).toHaveLength(1);
+    const [row] = await outboxRows(failing, invoice.id);
+    expect(row).toMatchObject({ status: 'sent', attempts: 3, lastError: null });
+    expect(row!.attemptedAt).toEqual(at(10));
+    await retryFailedMail(failing.database.db, backMailer, at(90));
+    expect(mine()).toHaveLength(1);
+  });
+
+  it('takes up a cut-off attempt made before attempts were timed, and lets a send again try it now', async () => {
+    const invoice = await freshInvoice(failing);
+    await sendInvoice(failing, invoice.id).expect(202);
+    await failing.database.db
+      .update(t.outbox)
+      .set({ status: 'queued', attempts: 2, attemptedAt: null })
+      .where(eq(t.outbox.invoiceId, invoice.id));
+    const retried = await request(failing.app)
+      .post(`/api/invoices/${invoice.id}/send?again=true`)
+      .set(as(failing, 'owner'))
+      .expect(202);
+    // The dead server is still this app's mailer: the attempt is made (3) and fails, one row still.
+    expect(retried.body).toMatchObject({ status: 'failed', attempts: 3 });
+    expect(await outboxRows(failing, invoice.id)).toHaveLength(1);
+  });
+
   it('keeps retrying with growing gaps: 1, 2, 4 … minutes, at most an hour', () => {
     // Exponential backoff with a cap: common practice for retry queues, no published source.
     expect([1, 2, 3, 4, 7, 8, 20].map(retryDelayMs)).toEqual([
