@@ -511,9 +511,14 @@ export function resendGate(
 ): Row | null {
   if (earlier.length === 0 && !markedSent) return null;
   if (!again) {
-    throw new ConflictError(`${what} was already sent; send with ?again=true to send it once more.`, {
-      mailIds: earlier.map((r) => r.id),
-    });
+    // Never sent yet, only waiting (a failed attempt, or one under way): say so, not "already sent".
+    const waiting = !markedSent && earlier.every((r) => r.status !== 'sent');
+    throw new ConflictError(
+      waiting
+        ? `${what} is waiting in the outbox and is tried again on its own; send it again to try it now.`
+        : `${what} was already sent; send it again (again=true) for one more copy.`,
+      { mailIds: earlier.map((r) => r.id), waiting },
+    );
   }
   const pending = earlier.filter((r) => r.status !== 'sent');
   const underWay = pending.find((r) => r.status === 'queued' && r.attempts > 0 && !interrupted(r, now));

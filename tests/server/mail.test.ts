@@ -84,6 +84,8 @@ describe('POST /api/invoices/:id/send', () => {
     const before = fake.messages.length;
     const again = await sendInvoice(api, invoice.id).expect(409);
     expect(again.body.error.code).toBe('conflict');
+    expect(again.body.error.message).toMatch(/was already sent; send it again \(again=true\) for one more copy/);
+    expect(again.body.error.details).toMatchObject({ waiting: false });
     expect(fake.messages).toHaveLength(before);
     expect(await outboxRows(api, invoice.id)).toHaveLength(1);
 
@@ -156,8 +158,11 @@ describe('when SMTP fails', () => {
       .set(as(failing, 'owner'))
       .expect(200);
     expect(OutboxListSchema.parse(list.body).items.map((m) => m.id)).toContain(item.id);
-    // Waiting for its retry, it is not sent again on a plain request either.
-    await sendInvoice(failing, invoice.id).expect(409);
+    // Waiting for its retry, it is not sent again on a plain request either, and the answer says it
+    // waits (never sent) rather than "already sent".
+    const waiting = await sendInvoice(failing, invoice.id).expect(409);
+    expect(waiting.body.error.message).toMatch(/is waiting in the outbox and is tried again on its own/);
+    expect(waiting.body.error.details).toEqual({ mailIds: [item.id], waiting: true });
 
     const start = failing.clock.now.getTime();
     // 1 minute of backoff after the first failure (server/services/mail.ts, RETRY_BASE_MS).

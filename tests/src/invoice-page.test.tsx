@@ -199,6 +199,48 @@ describe('the invoice page', () => {
     );
   });
 
+  it('says a mail already waiting in the outbox is retried on its own, and tries it at once when asked', async () => {
+    const sends: string[] = [];
+    const mail = {
+      id: 71,
+      kind: 'invoice',
+      to: 'jules@example.test',
+      subject: 'Invoice 0039',
+      status: 'sent' as const,
+      attempts: 2,
+      lastError: null,
+      attachments: [],
+      invoiceId: 39,
+      jobId: null,
+      sentAt: '2026-11-18T15:00:00.000Z',
+      createdAt: '2026-11-18T14:00:00.000Z',
+      paymentLinkUrl: null,
+      paymentLinkError: null,
+    };
+    invoiceServer('owner', sampleInvoice, {
+      'POST /api/invoices/39/send': ({ url }) => {
+        sends.push(url.search);
+        return url.searchParams.get('again') === 'true'
+          ? jsonResponse(202, mail)
+          : jsonResponse(409, {
+              error: {
+                code: 'conflict',
+                message:
+                  'Invoice 0039 is waiting in the outbox and is tried again on its own; send it again to try it now.',
+                details: { mailIds: [71], waiting: true },
+              },
+            });
+      },
+    });
+    await openInvoice();
+    fireEvent.click(main().getByRole('button', { name: 'Send the invoice' }));
+    expect(await main().findByText(/is waiting in the outbox and is tried again on its own/)).toBeTruthy();
+    fireEvent.click(main().getByRole('button', { name: 'Try it now' }));
+    expect(await main().findByText('Sent to jules@example.test.')).toBeTruthy();
+    expect(sends).toEqual(['', '?again=true']);
+    expect(main().queryByRole('button', { name: 'Try it now' })).toBeNull();
+  });
+
   it('shows a customer their invoice and its payment link, with no payment or send controls', async () => {
     const withLink = { ...sampleInvoice, paymentLinkUrl: 'http://127.0.0.1:5199/pay/cs_test_39' };
     invoiceServer('customer', withLink);

@@ -15,6 +15,9 @@ export function SendInvoice({ invoice }: { invoice: InvoiceDetail }) {
   const send = useSendInvoice(invoice.id);
   const sent = invoice.sentAt !== null;
   const to = send.data?.to;
+  // Not sent yet, but a mail for it already waits in the outbox (its first attempt failed): the
+  // server retries it on its own, and "try it now" makes that attempt at once, not a second copy.
+  const waiting = isWaitingMail(send.error);
   return (
     <Panel>
       <h2 className="text-xl font-bold">E-mail to the customer</h2>
@@ -42,6 +45,15 @@ export function SendInvoice({ invoice }: { invoice: InvoiceDetail }) {
           }
           failure="Not sent."
         />
+        {waiting ? (
+          <Button
+            variant="secondary"
+            className="justify-self-start"
+            onClick={() => send.mutate({ again: true })}
+          >
+            Try it now
+          </Button>
+        ) : null}
         {send.data?.paymentLinkError ? (
           <p className="text-base font-bold text-warn">
             <span aria-hidden="true">{toneGlyphs.warn} </span>
@@ -51,6 +63,12 @@ export function SendInvoice({ invoice }: { invoice: InvoiceDetail }) {
       </div>
     </Panel>
   );
+}
+
+function isWaitingMail(error: unknown): boolean {
+  if (!(error instanceof ApiError) || error.status !== 409) return false;
+  const details = error.details as { waiting?: unknown } | undefined;
+  return details?.waiting === true;
 }
 
 type PaymentLinkProps = {
