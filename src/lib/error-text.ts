@@ -31,3 +31,12 @@ export function fieldErrorsOf(error: Error): Array<[path: string, message: strin
   const issues = FieldIssuesSchema.safeParse(error.details);
   return issues.success ? issues.data.map((issue): [string, string] => [issue.path, issue.message]) : [];
 }
+
+/**
+ * A send refused because a mail for the same thing never went but waits in the outbox (409 with
+ * `details.waiting`): the server retries it on its own, and a send with `again` tries it at once.
+ */
+export function isWaitingMail(error: unknown): boolean {
+  if (!(error instanceof ApiError) || error.status !== 409) return false;
+  return (error.details as { waiting?: unknown } | undefined)?.waiting === true;
+}

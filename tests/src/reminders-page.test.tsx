@@ -137,6 +137,30 @@ describe('the reminders page', () => {
     expect(writes(fetchMock)).toEqual(['POST /api/reminders/4/send?again=true']);
   });
 
+  it('says a reminder whose mail waits in the outbox is retried on its own, and tries it at once when asked', async () => {
+    const fetchMock = fakeApi({
+      ...session('owner'),
+      'GET /api/reminders': () =>
+        jsonResponse(200, list([dueItem({ reminder: { id: 4, status: 'pending', sentAt: null } })])),
+      'POST /api/reminders/4/send': ({ url }) =>
+        url.searchParams.get('again') === 'true'
+          ? jsonResponse(202, outboxItem({ attempts: 2 }))
+          : jsonResponse(409, {
+              error: {
+                code: 'conflict',
+                message: 'This reminder is waiting in the outbox and is tried again on its own; send it again to try it now.',
+                details: { mailIds: [7], waiting: true },
+              },
+            }),
+    });
+    await openReminders();
+    fireEvent.click(await main().findByRole('button', { name: /^Send reminder: Fuel filter/ }));
+    expect(await main().findByText('Its mail is waiting in the outbox and is tried again on its own.')).toBeTruthy();
+    fireEvent.click(main().getByRole('button', { name: /^Try it now: Fuel filter/ }));
+    expect(await main().findByText('Sent to hollis@example.test.')).toBeTruthy();
+    expect(writes(fetchMock)).toEqual(['POST /api/reminders/4/send', 'POST /api/reminders/4/send?again=true']);
+  });
+
   it('offers no send to the helper, who may read the list but not mail customers', async () => {
     fakeApi({
       ...session('helper'),

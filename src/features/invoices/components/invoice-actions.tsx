@@ -5,7 +5,7 @@ import { MutationStatus } from '../../../components/ui/mutation-status';
 import { Panel } from '../../../components/ui/panel';
 import { toneGlyphs } from '../../../components/ui/tone';
 import { ApiError } from '../../../lib/api-client';
-import { errorText } from '../../../lib/error-text';
+import { errorText, isWaitingMail } from '../../../lib/error-text';
 import { formatCalendarDate } from '../../../lib/format';
 import { localDay } from '../../../lib/calendar-days';
 import { useCreatePaymentLink, useSendInvoice } from '../api/mutations';
@@ -63,12 +63,6 @@ export function SendInvoice({ invoice }: { invoice: InvoiceDetail }) {
       </div>
     </Panel>
   );
-}
-
-function isWaitingMail(error: unknown): boolean {
-  if (!(error instanceof ApiError) || error.status !== 409) return false;
-  const details = error.details as { waiting?: unknown } | undefined;
-  return details?.waiting === true;
 }
 
 type PaymentLinkProps = {

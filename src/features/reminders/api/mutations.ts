@@ -35,9 +35,10 @@ function reminderIdIn(details: unknown): number | null {
   return typeof id === 'number' ? id : null;
 }
 
-export async function sendReminder(item: DueItem) {
+/** `again` sends once more: a reminder already sent, or one whose mail waits to be tried now. */
+export async function sendReminder(item: DueItem, again = item.reminder?.status === 'sent') {
   const id = await openReminderId(item);
-  return request(reminderSendPath(id, item.reminder?.status === 'sent'), OutboxItemSchema, {
+  return request(reminderSendPath(id, again), OutboxItemSchema, {
     method: 'POST',
   });
 }
@@ -49,7 +50,7 @@ export async function sendReminder(item: DueItem) {
 export function useSendReminder() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: sendReminder,
+    mutationFn: ({ item, again }: { item: DueItem; again?: boolean }) => sendReminder(item, again),
     onSettled: () => queryClient.invalidateQueries({ queryKey: reminderQueries.lists() }),
   });
 }

@@ -8,7 +8,7 @@ import { LoadFailure, Loading } from '../../../components/ui/load-failure';
 import { StatusPill } from '../../../components/ui/status-pill';
 import { toneClasses, toneGlyphs } from '../../../components/ui/tone';
 import type { Tone } from '../../../components/ui/tone';
-import { errorText } from '../../../lib/error-text';
+import { errorText, isWaitingMail } from '../../../lib/error-text';
 import { formatCalendarDate, formatDecimal, formatInstant } from '../../../lib/format';
 import { useSendReminder } from '../api/mutations';
 import { useDueList } from '../api/queries';
@@ -188,13 +188,27 @@ function SendReminder({ item }: { item: DueItem }) {
       <Button
         variant={again ? 'secondary' : 'primary'}
         disabled={send.isPending}
-        onClick={() => send.mutate(item)}
+        onClick={() => send.mutate({ item })}
         aria-label={`${again ? 'Send again' : 'Send reminder'}: ${item.label}, ${item.machine.make} ${item.machine.model}, to ${who}`}
       >
         {send.isPending ? 'Sending…' : again ? 'Send again' : 'Send reminder'}
       </Button>
       <div aria-live="polite">
-        {send.isError ? (
+        {send.isError && isWaitingMail(send.error) ? (
+          <div className="grid gap-2">
+            <Outcome tone="warn">
+              Its mail is waiting in the outbox and is tried again on its own.
+            </Outcome>
+            <Button
+              variant="secondary"
+              className="justify-self-start"
+              onClick={() => send.mutate({ item, again: true })}
+              aria-label={`Try it now: ${item.label}, ${item.machine.make} ${item.machine.model}, to ${who}`}
+            >
+              Try it now
+            </Button>
+          </div>
+        ) : send.isError ? (
           <Outcome tone="fail">Not sent. {errorText(send.error)}</Outcome>
         ) : mail?.status === 'failed' ? (
           <Outcome tone="warn">
