@@ -1,7 +1,7 @@
 import { errorText } from '../../lib/error-text';
 import { toneClasses, toneGlyphs } from './tone';
 
-type MutationLike = { isPending: boolean; isSuccess: boolean; error: Error | null };
+export type MutationLike = { isPending: boolean; isSuccess: boolean; error: Error | null };
 
 type MutationStatusProps = {
   /** A `useMutation` result, as it is. */

@@ -3,9 +3,8 @@ import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { CreateCustomerInputSchema } from '../../../../shared/api/customers';
 import type { CreateCustomerInput, Customer, UpdateCustomerInput } from '../../../../shared/api/customers';
-import { Button } from '../../../components/ui/button';
+import { FormActions } from '../../../components/ui/form-actions';
 import { FormField, TextAreaField } from '../../../components/ui/form-field';
-import { MutationStatus } from '../../../components/ui/mutation-status';
 import { fieldErrorsOf } from '../../../lib/error-text';
 import { blankAsNull, textField } from '../../../lib/form-schema';
 import { useCreateCustomer, useUpdateCustomer } from '../api/mutations';
@@ -127,22 +126,14 @@ export function CustomerForm(props: CustomerFormProps) {
         error={errors.notes?.message}
         {...form.register('notes')}
       />
-      <div className="grid gap-3">
-        <div className="flex flex-wrap gap-3">
-          <Button type="submit" disabled={mutation.isPending}>
-            {mutation.isPending ? 'Saving…' : props.mode === 'create' ? 'Add the customer' : 'Save changes'}
-          </Button>
-          <Button variant="secondary" onClick={props.onCancel} disabled={mutation.isPending}>
-            Cancel
-          </Button>
-        </div>
-        <MutationStatus
-          mutation={mutation}
-          pending="Saving the customer…"
-          success="Customer saved."
-          failure="The customer was not saved."
-        />
-      </div>
+      <FormActions
+        mutation={mutation}
+        submit={props.mode === 'create' ? 'Add the customer' : 'Save changes'}
+        onCancel={props.onCancel}
+        pending="Saving the customer…"
+        success="Customer saved."
+        failure="The customer was not saved."
+      />
     </form>
   );
 }

@@ -4,9 +4,8 @@ import { z } from 'zod';
 import { CreateMachineInputSchema, MACHINE_KINDS, METER_UNITS } from '../../../../shared/api/machines';
 import type { CreateMachineBody, Machine, UpdateMachineBody } from '../../../../shared/api/machines';
 import { modelYearsFromVin } from '../../../../shared/vin';
-import { Button } from '../../../components/ui/button';
+import { FormActions } from '../../../components/ui/form-actions';
 import { FormField, SelectField, TextAreaField } from '../../../components/ui/form-field';
-import { MutationStatus } from '../../../components/ui/mutation-status';
 import { fieldErrorsOf } from '../../../lib/error-text';
 import { blankAsNull, decimalOrNull, integerOrNull, textField } from '../../../lib/form-schema';
 import { useCreateMachine, useUpdateMachine } from '../api/mutations';
@@ -171,22 +170,14 @@ export function MachineForm(props: MachineFormProps) {
         error={errors.notes?.message}
         {...form.register('notes')}
       />
-      <div className="grid gap-3">
-        <div className="flex flex-wrap gap-3">
-          <Button type="submit" disabled={mutation.isPending}>
-            {mutation.isPending ? 'Saving…' : verb}
-          </Button>
-          <Button variant="secondary" onClick={props.onCancel} disabled={mutation.isPending}>
-            Cancel
-          </Button>
-        </div>
-        <MutationStatus
-          mutation={mutation}
-          pending="Saving the machine…"
-          success="Machine saved."
-          failure="The machine was not saved."
-        />
-      </div>
+      <FormActions
+        mutation={mutation}
+        submit={verb}
+        onCancel={props.onCancel}
+        pending="Saving the machine…"
+        success="Machine saved."
+        failure="The machine was not saved."
+      />
     </form>
   );
 }

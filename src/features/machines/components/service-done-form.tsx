@@ -6,9 +6,8 @@ import {
   CreateServiceIntervalInputSchema,
   type ServiceInterval,
 } from '../../../../shared/api/service-intervals';
-import { Button } from '../../../components/ui/button';
+import { FormActions } from '../../../components/ui/form-actions';
 import { FormField } from '../../../components/ui/form-field';
-import { MutationStatus } from '../../../components/ui/mutation-status';
 import { todayIso } from '../../../lib/calendar-days';
 import { fieldErrorsOf } from '../../../lib/error-text';
 import { decimalOrNull, textField } from '../../../lib/form-schema';
@@ -97,22 +96,14 @@ export function ServiceDoneForm({
           {...form.register('lastDoneMeter')}
         />
       </div>
-      <div className="grid gap-3">
-        <div className="flex flex-wrap gap-3">
-          <Button type="submit" disabled={record.isPending}>
-            {record.isPending ? 'Saving…' : 'Record it done'}
-          </Button>
-          <Button variant="secondary" onClick={onCancel} disabled={record.isPending}>
-            Cancel
-          </Button>
-        </div>
-        <MutationStatus
-          mutation={record}
-          pending="Saving…"
-          success="Recorded."
-          failure="Nothing was recorded."
-        />
-      </div>
+      <FormActions
+        mutation={record}
+        submit={'Record it done'}
+        onCancel={onCancel}
+        pending="Saving…"
+        success="Recorded."
+        failure="Nothing was recorded."
+      />
     </form>
   );
 }

@@ -8,9 +8,8 @@ import {
   CreateServiceIntervalInputSchema,
   type CreateServiceIntervalInput,
 } from '../../../../shared/api/service-intervals';
-import { Button } from '../../../components/ui/button';
+import { FormActions } from '../../../components/ui/form-actions';
 import { FormField, SelectField } from '../../../components/ui/form-field';
-import { MutationStatus } from '../../../components/ui/mutation-status';
 import { todayIso } from '../../../lib/calendar-days';
 import { fieldErrorsOf } from '../../../lib/error-text';
 import { decimalOrNull, integerOrNull, textField } from '../../../lib/form-schema';
@@ -166,22 +165,14 @@ export function ServiceIntervalForm({
           {...form.register('source')}
         />
       </div>
-      <div className="grid gap-3">
-        <div className="flex flex-wrap gap-3">
-          <Button type="submit" disabled={create.isPending}>
-            {create.isPending ? 'Saving…' : 'Add the interval'}
-          </Button>
-          <Button variant="secondary" onClick={onCancel} disabled={create.isPending}>
-            Cancel
-          </Button>
-        </div>
-        <MutationStatus
-          mutation={create}
-          pending="Saving the interval…"
-          success="Interval added."
-          failure="The interval was not added."
-        />
-      </div>
+      <FormActions
+        mutation={create}
+        submit={'Add the interval'}
+        onCancel={onCancel}
+        pending="Saving the interval…"
+        success="Interval added."
+        failure="The interval was not added."
+      />
     </form>
   );
 }
