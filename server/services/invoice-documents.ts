@@ -7,7 +7,8 @@ import type { Actor } from '../auth/actor';
 import type { Db } from '../db/client';
 import * as t from '../db/schema';
 import { renderInvoicePdf, type InvoiceDocument, type Paper } from '../pdf/invoice-pdf';
-import { dayIn, getInvoice, loadBusiness } from './invoices';
+import { dayIn } from './business-calendar';
+import { getInvoice, loadBusiness } from './invoices';
 import { found } from './scope';
 
 export interface InvoicePdfOptions {

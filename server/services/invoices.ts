@@ -1,5 +1,4 @@
 import { TZDate } from '@date-fns/tz';
-import { formatISO } from 'date-fns';
 import { and, asc, desc, eq, getTableColumns, gt, gte, lt, lte, ne, or, sql, type SQL } from 'drizzle-orm';
 import type { ListResponse } from '../../shared/api/common';
 import type {
@@ -19,15 +18,11 @@ import { ConflictError } from '../errors';
 import { decodeCursor, toPage } from '../http/pagination';
 import { expireDroppedCheckout, type PaymentProvider } from '../payments/provider';
 import { recordAudit } from './audit';
+import { businessToday, dayIn } from './business-calendar';
 import { found, iso, scoped } from './scope';
 
 const invoiceScope = { businessId: t.invoices.businessId, customerId: t.invoices.customerId };
 const jobScope = { businessId: t.jobs.businessId, customerId: t.jobs.customerId };
-
-/** The calendar day an instant falls on in a time zone, YYYY-MM-DD. */
-export function dayIn(timezone: string, instant: Date): string {
-  return formatISO(new TZDate(instant, timezone), { representation: 'date' });
-}
 
 /** A calendar day moved by whole days; read as UTC so no daylight-saving change can shift it. */
 export function addCalendarDays(day: string, days: number): string {
@@ -132,12 +127,6 @@ function toLine(row: typeof t.invoiceLines.$inferSelect): InvoiceLine {
     lineTotalCents: row.lineTotalCents,
     taxCents: row.taxCents,
   };
-}
-
-/** The business's today, which decides what is overdue. */
-export async function businessToday(db: Db, businessId: number, now: Date): Promise<string> {
-  const business = await loadBusiness(db, businessId);
-  return dayIn(business.timezone, now);
 }
 
 function statusFilter(status: InvoiceListQuery['status'], today: string): SQL | undefined {

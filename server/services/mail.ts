@@ -20,7 +20,8 @@ import { jobDocumentAttachments } from './document-attachments';
 import { loadBusiness } from './invoices';
 import { toOutboxItem } from './outbox';
 import { found, scoped } from './scope';
-import { businessTimezone, calendarDayIn, judgeInterval } from './service-intervals';
+import { businessTimezone, dayIn } from './business-calendar';
+import { judgeInterval } from './service-intervals';
 
 type Row = typeof t.outbox.$inferSelect;
 type StoredAttachment = { filename: string; contentType: string; sizeBytes: number | null };
@@ -461,7 +462,7 @@ export async function sendReminderMail(
 
   const business = await loadBusiness(db, actor.businessId);
   const timezone = await businessTimezone(db, actor.businessId);
-  const state = judgeInterval(interval, machine, calendarDayIn(timezone, now));
+  const state = judgeInterval(interval, machine, dayIn(timezone, now));
   const machineName = [machine.year, machine.make, machine.model].filter((x) => x !== null).join(' ');
   const { row, inserted } = await db.transaction(async (tx) => {
     const queued = await enqueueMail(

@@ -16,7 +16,8 @@ import { ConflictError } from '../errors';
 import { decodeCursor, toPage } from '../http/pagination';
 import { expireDroppedCheckout, type PaymentProvider } from '../payments/provider';
 import { recordAudit } from './audit';
-import { dayIn, findInvoice, loadBusiness, toPayment } from './invoices';
+import { dayIn } from './business-calendar';
+import { findInvoice, loadBusiness, toPayment } from './invoices';
 import { found, scoped } from './scope';
 
 const invoiceScope = { businessId: t.invoices.businessId, customerId: t.invoices.customerId };

@@ -16,7 +16,8 @@ import * as t from '../db/schema';
 import { ConflictError } from '../errors';
 import { decodeCursor, encodeCursor } from '../http/pagination';
 import { found, iso, scoped } from './scope';
-import { businessTimezone, calendarDayIn, judgeInterval } from './service-intervals';
+import { businessTimezone, dayIn } from './business-calendar';
+import { judgeInterval } from './service-intervals';
 
 type ReminderRow = typeof t.reminders.$inferSelect;
 /** Intervals are judged in memory (the status is computed), so the due list reads them in batches. */
@@ -71,7 +72,7 @@ function currentReminder(
 ): ReminderRow | undefined {
   return (
     reminders.find((r) => isOpen(r.status)) ??
-    reminders.find((r) => lastDoneOn === null || calendarDayIn(timezone, r.createdAt) >= lastDoneOn)
+    reminders.find((r) => lastDoneOn === null || dayIn(timezone, r.createdAt) >= lastDoneOn)
   );
 }
 
@@ -83,7 +84,7 @@ export async function listDue(
   now: Date,
 ): Promise<ListResponse<DueItem>> {
   const timezone = await businessTimezone(db, actor.businessId);
-  const asOf = query.on ?? calendarDayIn(timezone, now);
+  const asOf = query.on ?? dayIn(timezone, now);
   const wanted = new Set<string>(query.status ?? DUE_STATUSES);
   const matches: { row: IntervalWithOwners; state: ReturnType<typeof judgeInterval> }[] = [];
   let before = decodeCursor(query.cursor);
@@ -147,7 +148,7 @@ export async function createReminder(
   now: Date,
 ): Promise<Reminder> {
   const timezone = await businessTimezone(db, actor.businessId);
-  const today = calendarDayIn(timezone, now);
+  const today = dayIn(timezone, now);
   return db.transaction(async (tx) => {
     // The row lock makes "one open reminder per interval" hold when two requests race.
     const [target] = await tx
@@ -202,7 +203,7 @@ export async function updateReminder(
   now: Date,
 ): Promise<Reminder> {
   const timezone = await businessTimezone(db, actor.businessId);
-  const today = calendarDayIn(timezone, now);
+  const today = dayIn(timezone, now);
   return db.transaction(async (tx) => {
     const [current] = await tx
       .select()

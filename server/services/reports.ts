@@ -17,7 +17,7 @@ import type { Actor } from '../auth/actor';
 import { queryRows, type Db } from '../db/client';
 import * as t from '../db/schema';
 import { addCalendarDays, startOfDayIn } from './invoices';
-import { businessTimezone } from './service-intervals';
+import { businessTimezone } from './business-calendar';
 import { scoped } from './scope';
 import { mileageTotals } from './trips';
 

@@ -1,5 +1,3 @@
-import { TZDate } from '@date-fns/tz';
-import { format } from 'date-fns';
 import { and, desc, eq, inArray, lt } from 'drizzle-orm';
 import type { ListResponse } from '../../shared/api/common';
 import type {
@@ -18,6 +16,7 @@ import * as t from '../db/schema';
 import { BadRequestError } from '../errors';
 import { decodeCursor, toPage } from '../http/pagination';
 import { recordAudit } from './audit';
+import { businessToday } from './business-calendar';
 import { found, scoped } from './scope';
 
 type Reader = Pick<Db, 'select'>;
@@ -29,24 +28,6 @@ export interface MeterOf {
 }
 
 const machineColumns = { businessId: t.machines.businessId, customerId: t.machines.customerId };
-
-/** The calendar day an instant falls on in a time zone, YYYY-MM-DD. */
-export function calendarDayIn(timezone: string, instant: Date): string {
-  return format(new TZDate(instant.getTime(), timezone), 'yyyy-MM-dd');
-}
-
-/** Due dates are the business's calendar days: "today" is today where the mechanic works. */
-export async function businessTimezone(db: Reader, businessId: number): Promise<string> {
-  const [row] = await db
-    .select({ timezone: t.businesses.timezone })
-    .from(t.businesses)
-    .where(eq(t.businesses.id, businessId));
-  return found(row, 'business').timezone;
-}
-
-export async function businessToday(db: Reader, businessId: number, now: Date): Promise<string> {
-  return calendarDayIn(await businessTimezone(db, businessId), now);
-}
 
 function cannotJudge(asOf: string, reason: string): IntervalState {
   return {

@@ -19,7 +19,7 @@ import * as t from '../db/schema';
 import { BadRequestError } from '../errors';
 import { decodeCursor, toPage } from '../http/pagination';
 import { recordAudit } from './audit';
-import { businessToday } from './invoices';
+import { businessToday } from './business-calendar';
 import { found, iso, scoped } from './scope';
 
 type Row = typeof t.trips.$inferSelect;
