@@ -3,12 +3,11 @@
  * made, and the customer's answer once given. Same type, swatches and sheets as the invoice; no
  * money is figured here, only formatted from integer cents.
  */
-import PDFDocument from 'pdfkit';
 import type { EstimateDecidedVia, EstimateLine } from '../../shared/api/estimates';
 import type { TaxRounding } from '../../shared/api/invoices';
 import type { MeterUnit } from '../../shared/api/machines';
-import { FONT_BOLD, FONT_REGULAR, registerFonts } from './fonts';
-import { formatCents, formatQuantity, formatRatePpm, taxRoundingRule, type Paper } from './invoice-pdf';
+import { formatCents, formatQuantity, formatRatePpm, taxRoundingRule } from './invoice-pdf';
+import { COLOUR, SheetLayout, type Paper } from './sheet';
 
 export interface EstimateDocument {
   business: {
@@ -44,21 +43,6 @@ export interface EstimateDocument {
   generatedAt: Date;
 }
 
-const COLOUR = {
-  ink: '#111417',
-  soft: '#3b4148',
-  rule: '#6a7079',
-  ground: '#f3f0e8',
-  coolant: '#0a5563',
-  onCoolant: '#ffffff',
-  pass: '#0f5424',
-  fail: '#8f0e17',
-} as const;
-
-const SHEET: Record<Paper, string> = { letter: 'LETTER', a4: 'A4' };
-const MARGIN = { top: 44, side: 48, bottom: 44 } as const;
-const FOOTER_ROOM = 30;
-
 const STATUS_WORDS = {
   draft: 'Draft',
   sent: 'Waiting for your answer',
@@ -72,91 +56,33 @@ export const ESTIMATE_TERMS =
   'when you sign in to see your job, or reply to the e-mail it came with. If the work turns up something ' +
   'more, you get a new estimate before anything beyond this one is done.';
 
-class EstimateLayout {
-  private readonly doc: PDFKit.PDFDocument;
-  private readonly left: number = MARGIN.side;
-  private readonly width: number;
-  private readonly bottom: number;
-  private y: number = MARGIN.top;
+class EstimateLayout extends SheetLayout {
 
   constructor(
     private readonly data: EstimateDocument,
     paper: Paper,
   ) {
-    this.doc = new PDFDocument({
-      size: SHEET[paper],
-      margins: { top: MARGIN.top, left: MARGIN.side, right: MARGIN.side, bottom: MARGIN.bottom },
-      bufferPages: true,
-      info: {
-        Title: `Estimate ${data.estimate.id}`,
-        Author: data.business.name,
-        Subject: `Estimate for ${data.customer.name}`,
-        CreationDate: data.generatedAt,
-        ModDate: data.generatedAt,
-      },
+    super(paper, {
+      title: `Estimate ${data.estimate.id}`,
+      author: data.business.name,
+      subject: `Estimate for ${data.customer.name}`,
+      generatedAt: data.generatedAt,
+      business: data.business.name,
+      continued: `Estimate ${data.estimate.id} (continued)`,
+      footer: `${data.business.name} · estimate ${data.estimate.id}`,
     });
-    registerFonts(this.doc);
-    this.width = this.doc.page.width - 2 * MARGIN.side;
-    this.bottom = this.doc.page.height - MARGIN.bottom - FOOTER_ROOM;
   }
 
-  render(): Promise<Buffer> {
-    const chunks: Buffer[] = [];
-    const done = new Promise<Buffer>((resolve, reject) => {
-      this.doc.on('data', (chunk: Buffer) => chunks.push(chunk));
-      this.doc.on('end', () => resolve(Buffer.concat(chunks)));
-      this.doc.on('error', reject);
-    });
+  protected draw(): void {
     this.header();
     this.parties();
     this.lineTable();
     this.totals();
     this.closing();
-    this.footers();
-    this.doc.end();
-    return done;
-  }
-
-  private font(bold: boolean, size: number, colour: string = COLOUR.ink): PDFKit.PDFDocument {
-    return this.doc
-      .font(bold ? FONT_BOLD : FONT_REGULAR)
-      .fontSize(size)
-      .fillColor(colour);
   }
 
   private money(cents: number): string {
     return formatCents(cents, this.data.business.currency);
-  }
-
-  private rule(y: number, colour: string, lineWidth: number, x = this.left, width = this.width): void {
-    this.doc
-      .moveTo(x, y)
-      .lineTo(x + width, y)
-      .lineWidth(lineWidth)
-      .strokeColor(colour)
-      .stroke();
-  }
-
-  private label(text: string, x: number, y: number, width: number): number {
-    this.font(true, 7.5, COLOUR.soft).text(text.toUpperCase(), x, y, { width, characterSpacing: 0.9 });
-    return this.doc.y + 3;
-  }
-
-  private ensureRoom(height: number): boolean {
-    if (this.y + height <= this.bottom) return false;
-    this.doc.addPage();
-    this.y = MARGIN.top;
-    this.font(true, 9).text(this.data.business.name, this.left, this.y, { width: this.width / 2 });
-    this.font(false, 9, COLOUR.soft).text(
-      `Estimate ${this.data.estimate.id} (continued)`,
-      this.left + this.width / 2,
-      this.y,
-      { width: this.width / 2, align: 'right' },
-    );
-    this.y = this.doc.y + 6;
-    this.rule(this.y, COLOUR.coolant, 1.5);
-    this.y += 14;
-    return true;
   }
 
   private header(): void {
@@ -348,27 +274,6 @@ class EstimateLayout {
     this.y = this.doc.y + 8;
   }
 
-  private footers(): void {
-    const range = this.doc.bufferedPageRange();
-    for (let index = range.start; index < range.start + range.count; index += 1) {
-      this.doc.switchToPage(index);
-      this.doc.page.margins.bottom = 0;
-      const y = this.doc.page.height - MARGIN.bottom - 10;
-      this.rule(y - 8, COLOUR.rule, 0.5);
-      this.font(false, 8.5, COLOUR.soft).text(
-        `${this.data.business.name} · estimate ${this.data.estimate.id}`,
-        this.left,
-        y,
-        { width: this.width - 90, lineBreak: false },
-      );
-      this.font(false, 8.5, COLOUR.soft).text(
-        `Page ${index - range.start + 1} of ${range.count}`,
-        this.left + this.width - 90,
-        y,
-        { width: 90, align: 'right', lineBreak: false },
-      );
-    }
-  }
 }
 
 export function renderEstimatePdf(data: EstimateDocument, paper: Paper): Promise<Buffer> {

@@ -3,14 +3,13 @@
  * prints comes from the stored invoice (InvoiceDocument); no money is figured here, only formatted,
  * from integer cents, once.
  */
-import PDFDocument from 'pdfkit';
 import type { InvoiceStatus, PaymentMethod, TaxRounding } from '../../shared/api/invoices';
 import type { LineItemKind } from '../../shared/api/jobs';
 import type { MeterUnit } from '../../shared/api/machines';
 import { round } from '../../shared/evaluators/types';
-import { FONT_BOLD, FONT_REGULAR, registerFonts } from './fonts';
+import { COLOUR, SheetLayout, type Paper } from './sheet';
 
-export type Paper = 'letter' | 'a4';
+export type { Paper } from './sheet';
 
 export interface InvoiceDocument {
   business: {
@@ -62,25 +61,6 @@ export interface InvoiceDocument {
   /** When the document was made: its PDF creation date, so the same input gives the same bytes. */
   generatedAt: Date;
 }
-
-/** Vanbay's daylight swatches (tailwind.config.ts): printed paper is read like the van door in sun. */
-const COLOUR = {
-  ink: '#111417',
-  soft: '#3b4148',
-  rule: '#6a7079',
-  ground: '#f3f0e8',
-  coolant: '#0a5563',
-  onCoolant: '#ffffff',
-  pass: '#0f5424',
-  fail: '#8f0e17',
-} as const;
-
-/** Sheet sizes in PostScript points: ISO 216 A4 is 210 × 297 mm, ANSI Letter 8.5 × 11 in (from memory). */
-const SHEET: Record<Paper, string> = { letter: 'LETTER', a4: 'A4' };
-
-const MARGIN = { top: 44, side: 48, bottom: 44 } as const;
-/** Room kept at the foot of every page for the footer line and the page number. */
-const FOOTER_ROOM = 30;
 
 const STATUS_WORDS: Record<InvoiceStatus, string> = {
   draft: 'Draft',
@@ -182,33 +162,22 @@ interface Columns {
 }
 
 /** Draws one invoice; the class holds the cursor and the page geometry while it does. */
-class InvoiceLayout {
-  private readonly doc: PDFKit.PDFDocument;
-  private readonly left: number = MARGIN.side;
-  private readonly width: number;
-  private readonly bottom: number;
+class InvoiceLayout extends SheetLayout {
   private readonly columns: Columns;
-  private y: number = MARGIN.top;
 
   constructor(
     private readonly data: InvoiceDocument,
     paper: Paper,
   ) {
-    this.doc = new PDFDocument({
-      size: SHEET[paper],
-      margins: { top: MARGIN.top, left: MARGIN.side, right: MARGIN.side, bottom: MARGIN.bottom },
-      bufferPages: true,
-      info: {
-        Title: `Invoice ${invoiceNumberLabel(data.invoice.number)}`,
-        Author: data.business.name,
-        Subject: `Invoice for ${data.customer.name}`,
-        CreationDate: data.generatedAt,
-        ModDate: data.generatedAt,
-      },
+    super(paper, {
+      title: `Invoice ${invoiceNumberLabel(data.invoice.number)}`,
+      author: data.business.name,
+      subject: `Invoice for ${data.customer.name}`,
+      generatedAt: data.generatedAt,
+      business: data.business.name,
+      continued: `Invoice ${invoiceNumberLabel(data.invoice.number)} (continued)`,
+      footer: data.business.invoiceFooter,
     });
-    registerFonts(this.doc);
-    this.width = this.doc.page.width - 2 * MARGIN.side;
-    this.bottom = this.doc.page.height - MARGIN.bottom - FOOTER_ROOM;
     const amountWidth = 86;
     const unitWidth = 84;
     const quantityWidth = 56;
@@ -221,67 +190,17 @@ class InvoiceLayout {
     };
   }
 
-  render(): Promise<Buffer> {
-    const chunks: Buffer[] = [];
-    const done = new Promise<Buffer>((resolve, reject) => {
-      this.doc.on('data', (chunk: Buffer) => chunks.push(chunk));
-      this.doc.on('end', () => resolve(Buffer.concat(chunks)));
-      this.doc.on('error', reject);
-    });
+  protected draw(): void {
     this.header();
     this.parties();
     this.jobSummary();
     this.lineTable();
     this.settlement();
     this.terms();
-    this.footers();
-    this.doc.end();
-    return done;
   }
 
   private money(cents: number): string {
     return formatCents(cents, this.data.business.currency);
-  }
-
-  private font(bold: boolean, size: number, colour: string = COLOUR.ink): PDFKit.PDFDocument {
-    return this.doc
-      .font(bold ? FONT_BOLD : FONT_REGULAR)
-      .fontSize(size)
-      .fillColor(colour);
-  }
-
-  /** A small spaced capital label over a block. */
-  private label(text: string, x: number, y: number, width: number): number {
-    this.font(true, 7.5, COLOUR.soft).text(text.toUpperCase(), x, y, { width, characterSpacing: 0.9 });
-    return this.doc.y + 3;
-  }
-
-  private rule(y: number, colour: string, lineWidth: number, x = this.left, width = this.width): void {
-    this.doc
-      .moveTo(x, y)
-      .lineTo(x + width, y)
-      .lineWidth(lineWidth)
-      .strokeColor(colour)
-      .stroke();
-  }
-
-  /** Starts a new page when `height` more points would run into the footer; true when it did. */
-  private ensureRoom(height: number): boolean {
-    if (this.y + height <= this.bottom) return false;
-    this.doc.addPage();
-    this.y = MARGIN.top;
-    const { business, invoice } = this.data;
-    this.font(true, 9, COLOUR.ink).text(business.name, this.left, this.y, { width: this.width / 2 });
-    this.font(false, 9, COLOUR.soft).text(
-      `Invoice ${invoiceNumberLabel(invoice.number)} (continued)`,
-      this.left + this.width / 2,
-      this.y,
-      { width: this.width / 2, align: 'right' },
-    );
-    this.y = this.doc.y + 6;
-    this.rule(this.y, COLOUR.coolant, 1.5);
-    this.y += 14;
-    return true;
   }
 
   private header(): void {
@@ -566,31 +485,6 @@ class InvoiceLayout {
     this.y = this.doc.y;
   }
 
-  /** The footer and "Page n of m" on every page, once the page count is known. */
-  private footers(): void {
-    const range = this.doc.bufferedPageRange();
-    const footer = this.data.business.invoiceFooter;
-    for (let index = range.start; index < range.start + range.count; index += 1) {
-      this.doc.switchToPage(index);
-      // Writing below the bottom margin would make pdfkit open a page; the footer lives there.
-      this.doc.page.margins.bottom = 0;
-      const y = this.doc.page.height - MARGIN.bottom - 10;
-      this.rule(y - 8, COLOUR.rule, 0.5);
-      if (footer) {
-        this.font(false, 8.5, COLOUR.soft).text(footer, this.left, y, {
-          width: this.width - 90,
-          lineBreak: false,
-          ellipsis: '…',
-        });
-      }
-      this.font(false, 8.5, COLOUR.soft).text(
-        `Page ${index - range.start + 1} of ${range.count}`,
-        this.left + this.width - 90,
-        y,
-        { width: 90, align: 'right', lineBreak: false },
-      );
-    }
-  }
 }
 
 /** Renders an invoice to PDF bytes on Letter or A4 paper. */

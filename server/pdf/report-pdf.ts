@@ -5,14 +5,13 @@
  * and sheet sizes as the invoice; everything it prints comes ready-worded from ReportDocument
  * (server/services/report-documents.ts), except the chart, which is drawn here from its numbers.
  */
-import PDFDocument from 'pdfkit';
 import type { LineItemKind } from '../../shared/api/jobs';
 import type { MeterUnit } from '../../shared/api/machines';
 import type { Verdict } from '../../shared/api/readings';
 import type { SpecSource } from '../../shared/evaluators/types';
 import { round } from '../../shared/evaluators/types';
-import { FONT_BOLD, FONT_REGULAR, registerFonts } from './fonts';
-import { formatQuantity, type Paper } from './invoice-pdf';
+import { formatQuantity } from './invoice-pdf';
+import { COLOUR as SHEET_COLOUR, SheetLayout, type Paper } from './sheet';
 
 /** The words every generic limit carries wherever it is shown (DEVELOPERS.md, "Data rules"). */
 export const GENERIC_LABEL = 'generic — confirm in the service manual';
@@ -127,27 +126,16 @@ export interface ReportDocument {
 
 /** Vanbay's daylight swatches (tailwind.config.ts), as on the invoice. */
 const COLOUR = {
-  ink: '#111417',
-  soft: '#3b4148',
-  rule: '#6a7079',
+  ...SHEET_COLOUR,
   grid: '#d6d2c8',
-  ground: '#f3f0e8',
-  coolant: '#0a5563',
-  onCoolant: '#ffffff',
-  pass: '#0f5424',
   passWash: '#dcf1e1',
   warn: '#6e4200',
   warnWash: '#fbedc6',
-  fail: '#8f0e17',
   failWash: '#f9dedb',
 } as const;
 
 /** The hold chart's own colours, exported so a test can find them on the rendered page. */
 export const CHART_COLOUR = { series: COLOUR.coolant, limit: COLOUR.fail } as const;
-
-const SHEET: Record<Paper, string> = { letter: 'LETTER', a4: 'A4' };
-const MARGIN = { top: 44, side: 48, bottom: 44 } as const;
-const FOOTER_ROOM = 30;
 
 /** Each verdict in the words a customer reads. */
 export const VERDICT_WORDS: Record<Verdict, string> = {
@@ -220,41 +208,24 @@ function decimalsFor(step: number): number {
 }
 
 /** Draws one report; the class holds the cursor and the page geometry while it does. */
-class ReportLayout {
-  private readonly doc: PDFKit.PDFDocument;
-  private readonly left: number = MARGIN.side;
-  private readonly width: number;
-  private readonly bottom: number;
-  private y: number = MARGIN.top;
+class ReportLayout extends SheetLayout {
 
   constructor(
     private readonly data: ReportDocument,
     paper: Paper,
   ) {
-    this.doc = new PDFDocument({
-      size: SHEET[paper],
-      margins: { top: MARGIN.top, left: MARGIN.side, right: MARGIN.side, bottom: MARGIN.bottom },
-      bufferPages: true,
-      info: {
-        Title: `Diagnostic report, job ${data.job.id}`,
-        Author: data.business.name,
-        Subject: `Diagnostic report for ${data.customer.name}`,
-        CreationDate: data.generatedAt,
-        ModDate: data.generatedAt,
-      },
+    super(paper, {
+      title: `Diagnostic report, job ${data.job.id}`,
+      author: data.business.name,
+      subject: `Diagnostic report for ${data.customer.name}`,
+      generatedAt: data.generatedAt,
+      business: data.business.name,
+      continued: `Diagnostic report, job ${data.job.id} (continued)`,
+      footer: `${data.business.name} · diagnostic report, job ${data.job.id}`,
     });
-    registerFonts(this.doc);
-    this.width = this.doc.page.width - 2 * MARGIN.side;
-    this.bottom = this.doc.page.height - MARGIN.bottom - FOOTER_ROOM;
   }
 
-  render(): Promise<Buffer> {
-    const chunks: Buffer[] = [];
-    const done = new Promise<Buffer>((resolve, reject) => {
-      this.doc.on('data', (chunk: Buffer) => chunks.push(chunk));
-      this.doc.on('end', () => resolve(Buffer.concat(chunks)));
-      this.doc.on('error', reject);
-    });
+  protected draw(): void {
     this.header();
     this.parties();
     this.jobSummary();
@@ -264,55 +235,13 @@ class ReportLayout {
     this.readings();
     this.work();
     this.safety();
-    this.footers();
-    this.doc.end();
-    return done;
   }
 
   // ---- Primitives ----------------------------------------------------------------------------
 
-  private font(bold: boolean, size: number, colour: string = COLOUR.ink): PDFKit.PDFDocument {
-    return this.doc
-      .font(bold ? FONT_BOLD : FONT_REGULAR)
-      .fontSize(size)
-      .fillColor(colour);
-  }
-
-  private label(text: string, x: number, y: number, width: number): number {
-    this.font(true, 7.5, COLOUR.soft).text(text.toUpperCase(), x, y, { width, characterSpacing: 0.9 });
-    return this.doc.y + 3;
-  }
-
-  private rule(y: number, colour: string, lineWidth: number, x = this.left, width = this.width): void {
-    this.doc
-      .moveTo(x, y)
-      .lineTo(x + width, y)
-      .lineWidth(lineWidth)
-      .strokeColor(colour)
-      .stroke();
-  }
-
   private textHeight(text: string, width: number, bold: boolean, size: number): number {
     this.font(bold, size);
     return this.doc.heightOfString(text, { width });
-  }
-
-  /** Starts a new page when `height` more points would run into the footer; true when it did. */
-  private ensureRoom(height: number): boolean {
-    if (this.y + height <= this.bottom) return false;
-    this.doc.addPage();
-    this.y = MARGIN.top;
-    this.font(true, 9).text(this.data.business.name, this.left, this.y, { width: this.width / 2 });
-    this.font(false, 9, COLOUR.soft).text(
-      `Diagnostic report, job ${this.data.job.id} (continued)`,
-      this.left + this.width / 2,
-      this.y,
-      { width: this.width / 2, align: 'right' },
-    );
-    this.y = this.doc.y + 6;
-    this.rule(this.y, COLOUR.coolant, 1.5);
-    this.y += 14;
-    return true;
   }
 
   /** A section heading, kept on the page with at least `keep` points of what follows. */
@@ -937,27 +866,6 @@ class ReportLayout {
     this.y += height + 6;
   }
 
-  private footers(): void {
-    const range = this.doc.bufferedPageRange();
-    for (let index = range.start; index < range.start + range.count; index += 1) {
-      this.doc.switchToPage(index);
-      this.doc.page.margins.bottom = 0;
-      const y = this.doc.page.height - MARGIN.bottom - 10;
-      this.rule(y - 8, COLOUR.rule, 0.5);
-      this.font(false, 8.5, COLOUR.soft).text(
-        `${this.data.business.name} · diagnostic report, job ${this.data.job.id}`,
-        this.left,
-        y,
-        { width: this.width - 90, lineBreak: false, ellipsis: '…' },
-      );
-      this.font(false, 8.5, COLOUR.soft).text(
-        `Page ${index - range.start + 1} of ${range.count}`,
-        this.left + this.width - 90,
-        y,
-        { width: 90, align: 'right', lineBreak: false },
-      );
-    }
-  }
 }
 
 /** Renders a diagnostic report to PDF bytes on Letter or A4 paper. */
