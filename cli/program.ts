@@ -14,6 +14,7 @@ import { jobCommand } from './commands/job';
 import { loginCommand } from './commands/login';
 import { logoutCommand } from './commands/logout';
 import { readingCommand } from './commands/reading';
+import { serviceCommand } from './commands/service';
 import { statusCommand, syncCommand } from './commands/sync';
 import { tripCommand } from './commands/trip';
 import { weekCommand } from './commands/week';
@@ -45,6 +46,7 @@ export function buildProgram(deps: CliDeps) {
     readingCommand(deps),
     checkCommand(deps),
     tripCommand(deps),
+    serviceCommand(deps),
     invoiceCommand(deps),
     syncCommand(deps),
     statusCommand(deps),
