@@ -919,7 +919,8 @@ async function seedInvoice(tx: Tx, input: InvoiceInput) {
     businessId: input.businessId,
     kind: 'invoice',
     to: input.customerEmail,
-    subject: `Invoice ${invoice!.number} from ${demoBusiness.name}`,
+    // As the mailer words it (services/mail.ts): the number to four digits.
+    subject: `Invoice ${String(invoice!.number).padStart(4, '0')} from ${demoBusiness.name}`,
     bodyText: `Your invoice ${invoice!.number} is attached.`,
     attachments: [{ filename: `invoice-${invoice!.number}.pdf`, contentType: 'application/pdf' }],
     status: 'sent',

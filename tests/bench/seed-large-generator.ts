@@ -1524,7 +1524,8 @@ async function addJob(sink: Sink, job: PlannedJob, ctx: JobContext) {
       businessId,
       kind: 'invoice',
       to: customer.email,
-      subject: `Invoice ${job.invoiceNumber} from ${demoBusiness.name}`,
+      // As the mailer words it (services/mail.ts): the number to four digits.
+      subject: `Invoice ${String(job.invoiceNumber).padStart(4, '0')} from ${demoBusiness.name}`,
       bodyText: `Your invoice ${job.invoiceNumber} is attached.`,
       attachments: [{ filename: `invoice-${job.invoiceNumber}.pdf`, contentType: 'application/pdf' }],
       status: 'sent',

@@ -41,7 +41,7 @@ describe('the outbox', () => {
     expect(mail).toMatchObject({
       kind: 'invoice',
       to: 'jules@example.test',
-      subject: 'Invoice 1 from Ridgeback Mobile Moto',
+      subject: 'Invoice 0001 from Ridgeback Mobile Moto',
       status: 'sent',
       attachments: [{ filename: 'invoice-1.pdf', contentType: 'application/pdf', sizeBytes: null }],
     });
