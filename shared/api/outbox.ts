@@ -27,6 +27,7 @@ export const OutboxItemSchema = z.object({
   createdAt: z.string(),
 });
 export type OutboxItem = z.infer<typeof OutboxItemSchema>;
+export type MailStatus = z.infer<typeof MailStatusSchema>;
 
 export const OutboxListQuerySchema = ListQuerySchema.extend({
   status: MailStatusSchema.optional(),

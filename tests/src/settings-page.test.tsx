@@ -3,7 +3,8 @@ import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/re
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { BusinessSettings, UpdateBusinessInput } from '../../shared/api/business';
 import type { User } from '../../shared/api/users';
-import { demoUsers, fakeApi, session } from './fake-api';
+import { demoUsers, fakeApi, session, type FakeRoute } from './fake-api';
+import type { OutboxItem } from '../../shared/api/outbox';
 import { jsonResponse, renderApp } from './render-app';
 
 afterEach(() => {
@@ -40,7 +41,7 @@ const users: User[] = Object.values(demoUsers).map((user) => ({
   createdAt: '2026-01-05T15:00:00.000Z',
 }));
 
-function settingsServer() {
+function settingsServer(extra: Record<string, FakeRoute> = {}) {
   let current = settings;
   const patches: UpdateBusinessInput[] = [];
   fakeApi({
@@ -53,6 +54,7 @@ function settingsServer() {
       return jsonResponse(200, current);
     },
     'GET /api/users': () => jsonResponse(200, { items: users, nextCursor: null }),
+    ...extra,
   });
   return patches;
 }
@@ -117,5 +119,66 @@ describe('the settings page', () => {
     expect((within(table).getByLabelText('Role of Dana Whitlock') as HTMLSelectElement).value).toBe('helper');
     // A customer's sign-in stays a customer's: no role control for it.
     expect(within(table).queryByLabelText('Role of Jules Marchetti')).toBeNull();
+  });
+
+  it('lists the mail sent from Vanbay: what went, what waits to retry and why, filtered by where it is', async () => {
+    const mail = (over: Partial<OutboxItem>): OutboxItem => ({
+      id: 1,
+      kind: 'invoice',
+      to: 'jules@example.test',
+      subject: 'Invoice 0039 from Ridgeback Mobile Moto',
+      status: 'sent',
+      attempts: 1,
+      lastError: null,
+      attachments: [{ filename: 'invoice-39.pdf', contentType: 'application/pdf', sizeBytes: 20_000 }],
+      invoiceId: 39,
+      jobId: null,
+      sentAt: '2026-11-18T15:00:00.000Z',
+      createdAt: '2026-11-18T15:00:00.000Z',
+      ...over,
+    });
+    const sent = mail({ id: 2, attempts: 2 });
+    const waiting = mail({
+      id: 3,
+      kind: 'reminder',
+      to: 'hollis@example.test',
+      subject: 'Fuel filter due',
+      status: 'failed',
+      attempts: 3,
+      lastError: '421 Service not available',
+      attachments: [],
+      sentAt: null,
+    });
+    const asked: (string | null)[] = [];
+    settingsServer({
+      'GET /api/outbox': ({ url }) => {
+        const status = url.searchParams.get('status');
+        asked.push(status);
+        const items = [waiting, sent].filter((m) => status === null || m.status === status);
+        return jsonResponse(200, { items, nextCursor: null });
+      },
+    });
+    renderApp('/settings');
+    const table = await screen.findByRole('table', { name: 'Mail sent from Vanbay, newest first' });
+    const rows = within(table).getAllByRole('row').slice(1);
+    expect(rows).toHaveLength(2);
+    expect(rows[0]!.textContent).toContain('Fuel filter due');
+    expect(rows[0]!.textContent).toContain('Service reminder to hollis@example.test');
+    expect(rows[0]!.textContent).toContain('Waiting to retry');
+    expect(rows[0]!.textContent).toContain('3 tries so far');
+    expect(rows[0]!.textContent).toContain('The mail server said: 421 Service not available');
+    expect(rows[1]!.textContent).toContain('Sent');
+    expect(rows[1]!.textContent).toContain('at the 2nd try');
+    expect(rows[1]!.textContent).toContain('invoice-39.pdf');
+
+    fireEvent.change(screen.getByLabelText('Show'), { target: { value: 'failed' } });
+    await waitFor(() => expect(asked).toContain('failed'));
+    await waitFor(() =>
+      expect(
+        within(screen.getByRole('table', { name: 'Mail sent from Vanbay, newest first' })).getAllByRole(
+          'row',
+        ),
+      ).toHaveLength(2),
+    );
   });
 });

@@ -1,4 +1,5 @@
 import { PageHeading } from '../../components/ui/page-heading';
+import { MailLog } from '../../features/outbox/components/mail-log';
 import { useSessionUser } from '../../features/session/api/queries';
 import { BusinessSettingsPanel } from '../../features/settings/components/business-settings';
 import { UsersPanel } from '../../features/settings/components/users-panel';
@@ -9,11 +10,13 @@ export function Component() {
   return (
     <>
       <PageHeading title="Settings">
-        The business as invoices show it, what new work is priced at, and who may sign in.
+        The business as invoices show it, what new work is priced at, who may sign in, and the mail sent from
+        Vanbay.
       </PageHeading>
       <div className="grid max-w-5xl gap-6">
         <BusinessSettingsPanel />
         <UsersPanel selfId={id} />
+        <MailLog />
       </div>
     </>
   );
