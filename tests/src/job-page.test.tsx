@@ -268,4 +268,30 @@ describe('the job page', () => {
     });
     expect((record as HTMLButtonElement).disabled).toBe(false);
   });
+
+  it('says whether the report went, or waits in the outbox with the mail server’s reason', async () => {
+    const row = {
+      id: 90,
+      kind: 'report',
+      to: 'jules@example.test',
+      subject: 'Diagnostic report, job 7',
+      attachments: [],
+      invoiceId: null,
+      jobId: 7,
+      createdAt: '2026-11-18T15:00:00.000Z',
+    };
+    let answer: object = { ...row, status: 'failed', attempts: 1, lastError: '421 try later', sentAt: null };
+    jobApi('owner', { 'POST /api/jobs/7/report/send': () => jsonResponse(202, answer) });
+    renderApp('/jobs/7');
+    await screen.findByRole('heading', { level: 1, name: 'Job #7 · 2019 Norrland Fjell 450' });
+    fireEvent.click(await main().findByRole('button', { name: 'E-mail it to the customer' }));
+    expect(
+      await main().findByText(
+        'Not gone yet (the mail server said: 421 try later): it is tried again on its own until it goes.',
+      ),
+    ).toBeTruthy();
+    answer = { ...row, status: 'sent', attempts: 2, lastError: null, sentAt: '2026-11-18T15:05:00.000Z' };
+    fireEvent.click(main().getByRole('button', { name: 'E-mail it to the customer' }));
+    expect(await main().findByText('Report sent to jules@example.test.')).toBeTruthy();
+  });
 });

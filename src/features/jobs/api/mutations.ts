@@ -26,6 +26,7 @@ import {
   jobEstimatePath,
 } from '../../../../shared/api/estimates';
 import { jobReportSendPath } from '../../../../shared/api/job-documents';
+import { OutboxItemSchema } from '../../../../shared/api/outbox';
 import { ApiError, CLIENT_ERROR_CODES, jsonInit, request } from '../../../lib/api-client';
 import { jobQueries } from './queries';
 
@@ -232,9 +233,10 @@ export function useDecideEstimate(jobId: number) {
   });
 }
 
+/** Mails the report; the answer is its outbox row: sent, or refused for now and retried on its own. */
 export function useSendReport(jobId: number) {
   return useMutation({
     mutationFn: (again: boolean) =>
-      sendJson('POST', `${jobReportSendPath(jobId)}${again ? '?again=true' : ''}`, z.unknown()),
+      sendJson('POST', `${jobReportSendPath(jobId)}${again ? '?again=true' : ''}`, OutboxItemSchema),
   });
 }

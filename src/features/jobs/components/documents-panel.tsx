@@ -203,7 +203,15 @@ function Report({ jobId, maySend }: { jobId: number; maySend: boolean }) {
         ) : null}
       </div>
       {maySend ? (
-        <MutationStatus mutation={send} success="Report sent." failure="The report was not sent." />
+        <MutationStatus
+          mutation={send}
+          success={
+            send.data?.status === 'sent'
+              ? `Report sent to ${send.data.to}.`
+              : `Not gone yet${send.data?.lastError ? ` (the mail server said: ${send.data.lastError})` : ''}: it is tried again on its own until it goes.`
+          }
+          failure="The report was not sent."
+        />
       ) : null}
     </div>
   );
