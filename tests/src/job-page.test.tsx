@@ -294,4 +294,34 @@ describe('the job page', () => {
     fireEvent.click(main().getByRole('button', { name: 'E-mail it to the customer' }));
     expect(await main().findByText('Report sent to jules@example.test.')).toBeTruthy();
   });
+
+  it('says whether a new estimate’s mail went, or waits in the outbox with the mail server’s reason', async () => {
+    const mail = {
+      id: 91,
+      kind: 'estimate',
+      to: 'jules@example.test',
+      subject: 'Estimate 32',
+      status: 'failed',
+      attempts: 1,
+      lastError: '421 try later',
+      attachments: [],
+      invoiceId: null,
+      jobId: 7,
+      sentAt: null,
+      createdAt: '2026-11-18T15:00:00.000Z',
+    };
+    jobApi('owner', {
+      // None waiting for an answer yet, so a new one may be sent.
+      'GET /api/jobs/7/estimates': () => jsonResponse(200, empty),
+      'POST /api/jobs/7/estimate': () => jsonResponse(201, { ...estimate, id: 32, status: 'sent', mail }),
+    });
+    renderApp('/jobs/7');
+    await screen.findByRole('heading', { level: 1, name: 'Job #7 · 2019 Norrland Fjell 450' });
+    fireEvent.click(await main().findByRole('button', { name: 'Send the estimate' }));
+    expect(
+      await main().findByText(
+        'Estimate made; its mail has not gone yet (the mail server said: 421 try later) and is tried again on its own until it goes.',
+      ),
+    ).toBeTruthy();
+  });
 });

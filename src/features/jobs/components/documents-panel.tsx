@@ -93,9 +93,11 @@ function Estimates({ job, rights }: { job: JobDetail; rights: DocumentRights }) 
           <MutationStatus
             mutation={send}
             success={
-              send.data?.mail
-                ? 'Estimate sent by e-mail.'
-                : 'Estimate made; the customer has no e-mail address on file.'
+              !send.data?.mail
+                ? 'Estimate made; the customer has no e-mail address on file.'
+                : send.data.mail.status === 'sent'
+                  ? `Estimate sent to ${send.data.mail.to}.`
+                  : `Estimate made; its mail has not gone yet${send.data.mail.lastError ? ` (the mail server said: ${send.data.mail.lastError})` : ''} and is tried again on its own until it goes.`
             }
             failure="The estimate was not sent."
           />
