@@ -1,6 +1,6 @@
 // @vitest-environment jsdom
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
-import { afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { Role } from '../../shared/api/users';
 import { fakeApi, requestedPaths, session } from './fake-api';
 import type { FakeRoute } from './fake-api';
@@ -14,6 +14,7 @@ import {
   quillbackHistory,
   quillbackIntervals,
 } from './machine-sample';
+import { businessSample } from './business-sample';
 import { jsonResponse, renderApp } from './render-app';
 
 // The page's lazy module is transformed on first import, which on a busy machine can outlast
@@ -24,6 +25,7 @@ beforeAll(async () => {
 
 afterEach(() => {
   cleanup();
+  vi.useRealTimers();
 });
 
 const main = () => within(screen.getByRole('main'));
@@ -323,7 +325,9 @@ describe('adding a service interval', () => {
 describe('recording a service done', () => {
   const patched = (fetchMock: ReturnType<typeof fakeApi>) =>
     fetchMock.mock.calls
-      .filter(([input, init]) => init?.method === 'PATCH' && String(input).endsWith('/api/machines/1/intervals/1'))
+      .filter(
+        ([input, init]) => init?.method === 'PATCH' && String(input).endsWith('/api/machines/1/intervals/1'),
+      )
       .map(([, init]) => JSON.parse(String(init?.body)) as Record<string, unknown>);
 
   it('sends the day and the meter (the machine’s own reading unless changed); the list reads again', async () => {
@@ -332,12 +336,20 @@ describe('recording a service done', () => {
       ...quillbackIntervals.items[0]!,
       lastDoneOn: '2026-11-17',
       lastDoneMeter: 18_400,
-      state: { ...quillbackIntervals.items[0]!.state, status: 'ok' as const, verdict: 'pass' as const, reason: 'Not due' },
+      state: {
+        ...quillbackIntervals.items[0]!.state,
+        status: 'ok' as const,
+        verdict: 'pass' as const,
+        reason: 'Not due',
+      },
     };
     const fetchMock = machineApi('helper', {
       'GET /api/machines/1/intervals': () => {
         listed += 1;
-        return jsonResponse(200, listed === 1 ? quillbackIntervals : { ...quillbackIntervals, items: [done] });
+        return jsonResponse(
+          200,
+          listed === 1 ? quillbackIntervals : { ...quillbackIntervals, items: [done] },
+        );
       },
       'PATCH /api/machines/1/intervals/1': () => jsonResponse(200, done),
     });
@@ -356,6 +368,20 @@ describe('recording a service done', () => {
     expect(patched(fetchMock)).toEqual([{ lastDoneOn: '2026-11-17', lastDoneMeter: 18_400 }]);
     await waitFor(() => expect(listed).toBe(2));
     expect(main().queryByRole('form', { name: 'Fuel filter done' })).toBeNull();
+  });
+
+  it('offers the business’s today, not this device’s, as the day it was done', async () => {
+    // 05:00 UTC on 3 December is still 2 December in Cinder Valley (America/Denver, UTC−7 in
+    // winter, IANA time zone database); the device here runs on UTC.
+    vi.useFakeTimers({ toFake: ['Date'] });
+    vi.setSystemTime(new Date('2026-12-03T05:00:00Z'));
+    machineApi('owner', {
+      'GET /api/business': () => jsonResponse(200, { ...businessSample, timezone: 'America/Denver' }),
+    });
+    await openMachine();
+    fireEvent.click(await main().findByRole('button', { name: 'Record Fuel filter done' }));
+    const form = within(main().getByRole('form', { name: 'Fuel filter done' }));
+    expect(form.getByLabelText('Done on')).toHaveProperty('value', '2026-12-02');
   });
 
   it('sends no meter when it is left blank, refuses a bad one before sending, and is not offered to a bookkeeper', async () => {

@@ -148,17 +148,23 @@ describe('the reminders page', () => {
           : jsonResponse(409, {
               error: {
                 code: 'conflict',
-                message: 'This reminder is waiting in the outbox and is tried again on its own; send it again to try it now.',
+                message:
+                  'This reminder is waiting in the outbox and is tried again on its own; send it again to try it now.',
                 details: { mailIds: [7], waiting: true },
               },
             }),
     });
     await openReminders();
     fireEvent.click(await main().findByRole('button', { name: /^Send reminder: Fuel filter/ }));
-    expect(await main().findByText('Its mail is waiting in the outbox and is tried again on its own.')).toBeTruthy();
+    expect(
+      await main().findByText('Its mail is waiting in the outbox and is tried again on its own.'),
+    ).toBeTruthy();
     fireEvent.click(main().getByRole('button', { name: /^Try it now: Fuel filter/ }));
     expect(await main().findByText('Sent to hollis@example.test.')).toBeTruthy();
-    expect(writes(fetchMock)).toEqual(['POST /api/reminders/4/send', 'POST /api/reminders/4/send?again=true']);
+    expect(writes(fetchMock)).toEqual([
+      'POST /api/reminders/4/send',
+      'POST /api/reminders/4/send?again=true',
+    ]);
   });
 
   it('offers no send to the helper, who may read the list but not mail customers', async () => {

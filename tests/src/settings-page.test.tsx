@@ -2,6 +2,7 @@
 import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { BusinessSettings, UpdateBusinessInput } from '../../shared/api/business';
+import { businessSample } from './business-sample';
 import type { User } from '../../shared/api/users';
 import { demoUsers, fakeApi, session, type FakeRoute } from './fake-api';
 import type { OutboxItem } from '../../shared/api/outbox';
@@ -12,27 +13,7 @@ afterEach(() => {
   vi.unstubAllGlobals();
 });
 
-/** The demo business's settings (PRODUCT.md's scenario) as GET /api/business answers them. */
-const settings: BusinessSettings = {
-  name: 'Ridgeback Mobile Moto',
-  ownerName: 'Morgan Avery',
-  email: 'owner@ridgeback.test',
-  phone: '555-0148',
-  addressLines: ['41 Quarry Bend Road', 'Cinder Valley'],
-  timezone: 'America/Denver',
-  currency: 'USD',
-  labourRateCents: 9500,
-  partsMarkupBps: 2500,
-  tripFeeBaseCents: 3500,
-  tripFeePerMileCents: 150,
-  tripFeeFreeMiles: 15,
-  shopSuppliesBps: 0,
-  taxRatePpm: 62_500,
-  taxRounding: 'per_invoice',
-  invoiceTermsDays: 14,
-  invoiceFooter: null,
-  updatedAt: '2026-11-18T15:00:00.000Z',
-};
+const settings = businessSample;
 
 const users: User[] = Object.values(demoUsers).map((user) => ({
   ...user,

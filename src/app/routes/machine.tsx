@@ -1,4 +1,4 @@
-import { useQueryClient } from '@tanstack/react-query';
+import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { useCallback, useState } from 'react';
 import { Link, useParams } from 'react-router';
 import { machineDisplayName } from '../../../shared/api/machines';
@@ -12,6 +12,8 @@ import { LoadFailure, Loading } from '../../components/ui/load-failure';
 import { PageHeading } from '../../components/ui/page-heading';
 import { Panel } from '../../components/ui/panel';
 import { ApiError } from '../../lib/api-client';
+import { businessSettingsQuery } from '../../lib/business-settings';
+import { todayIn, todayIso } from '../../lib/calendar-days';
 import { formatCalendarDate } from '../../lib/format';
 import { useCustomer } from '../../features/customers/api/queries';
 import { useMachine } from '../../features/machines/api/queries';
@@ -202,6 +204,9 @@ function IntervalsSection({
   mayRecord: boolean;
 }) {
   const queryClient = useQueryClient();
+  // The day the server counts as today is the business's, whatever this device's zone.
+  const business = useQuery(businessSettingsQuery());
+  const today = business.data ? todayIn(business.data.timezone) : todayIso();
   const [adding, setAdding] = useState(false);
   const [recording, setRecording] = useState<ServiceInterval | null>(null);
   const [said, setSaid] = useState('');
@@ -233,6 +238,7 @@ function IntervalsSection({
         <Panel>
           <ServiceIntervalForm
             machine={machine}
+            today={today}
             onSaved={() => {
               setAdding(false);
               setSaid('Interval added.');
@@ -247,6 +253,7 @@ function IntervalsSection({
             key={recording.id}
             machine={machine}
             interval={recording}
+            today={today}
             onSaved={({ lastDoneOn }) => {
               setRecording(null);
               setSaid(`${recording.label}: recorded done on ${formatCalendarDate(lastDoneOn)}.`);

@@ -8,7 +8,6 @@ import {
 } from '../../../../shared/api/service-intervals';
 import { FormActions } from '../../../components/ui/form-actions';
 import { FormField } from '../../../components/ui/form-field';
-import { todayIso } from '../../../lib/calendar-days';
 import { fieldErrorsOf } from '../../../lib/error-text';
 import { decimalOrNull, textField } from '../../../lib/form-schema';
 import { useRecordServiceDone } from '../api/mutations';
@@ -28,11 +27,14 @@ type DoneFormValues = z.input<typeof schema>;
 export function ServiceDoneForm({
   machine,
   interval,
+  today,
   onSaved,
   onCancel,
 }: {
   machine: Machine;
   interval: ServiceInterval;
+  /** The business's today, YYYY-MM-DD: the day offered until the mechanic gives another. */
+  today: string;
   onSaved: (values: { lastDoneOn: string }) => void;
   onCancel: () => void;
 }) {
@@ -40,7 +42,7 @@ export function ServiceDoneForm({
   const form = useForm({
     resolver: zodResolver(schema),
     defaultValues: {
-      lastDoneOn: todayIso(),
+      lastDoneOn: today,
       lastDoneMeter: machine.meterReading === null ? '' : String(machine.meterReading),
     } satisfies DoneFormValues,
   });

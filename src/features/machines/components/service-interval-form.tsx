@@ -10,7 +10,6 @@ import {
 } from '../../../../shared/api/service-intervals';
 import { FormActions } from '../../../components/ui/form-actions';
 import { FormField, SelectField } from '../../../components/ui/form-field';
-import { todayIso } from '../../../lib/calendar-days';
 import { fieldErrorsOf } from '../../../lib/error-text';
 import { decimalOrNull, integerOrNull, textField } from '../../../lib/form-schema';
 import { useCreateServiceInterval } from '../api/mutations';
@@ -63,10 +62,13 @@ const sourceOptions = [
  */
 export function ServiceIntervalForm({
   machine,
+  today,
   onSaved,
   onCancel,
 }: {
   machine: Machine;
+  /** The business's today, YYYY-MM-DD: "last done" until the mechanic gives another day. */
+  today: string;
   onSaved: () => void;
   onCancel: () => void;
 }) {
@@ -80,7 +82,7 @@ export function ServiceIntervalForm({
       label: '',
       everyMeter: '',
       everyMonths: '',
-      lastDoneOn: todayIso(),
+      lastDoneOn: today,
       lastDoneMeter: machine.meterReading === null ? '' : String(machine.meterReading),
       // Not from the manual until the mechanic says so: it shows as generic, to confirm.
       source: 'generic',
