@@ -39,45 +39,63 @@ function everyText(interval: ServiceInterval): string {
 }
 
 const col = dataColumns<ServiceInterval>();
-const columns = col.columns([
-  col.accessor('label', { header: 'Service', meta: { rowHeader: true } }),
-  col.accessor((interval) => everyText(interval), { id: 'every', header: 'Every' }),
-  col.accessor('lastDoneOn', {
-    header: 'Last done',
-    cell: ({ row }) => {
-      const { lastDoneOn, lastDoneMeter, meterUnit } = row.original;
-      const meter = meterText(lastDoneMeter, meterUnit);
-      return (
-        <>
-          <span className="block whitespace-nowrap">
-            {lastDoneOn ? formatCalendarDate(lastDoneOn) : 'not recorded'}
-          </span>
-          {meter ? <span className="block text-ink-soft">at {meter}</span> : null}
-        </>
-      );
-    },
-  }),
-  col.accessor((interval) => interval.state.status, {
-    id: 'status',
-    header: 'Where it stands',
-    cell: ({ row }) => {
-      const shown = intervalStatusShown[row.original.state.status];
-      return (
-        <div className="grid gap-1">
-          <span>
-            <StatusPill tone={shown.tone}>{shown.word}</StatusPill>
-          </span>
-          <span className="max-w-prose text-base">{row.original.state.reason}</span>
-          {row.original.source === 'generic' ? (
-            <span className="text-base font-bold text-warn">
-              Interval: generic — confirm in the service manual
+/** The columns; with `onRecord`, the standing cell ends in the button that records it done. */
+function columnsFor(onRecord?: (interval: ServiceInterval) => void) {
+  return col.columns([
+    col.accessor('label', { header: 'Service', meta: { rowHeader: true } }),
+    col.accessor((interval) => everyText(interval), {
+      id: 'every',
+      header: 'Every',
+      meta: { hideOnPhone: true },
+    }),
+    col.accessor('lastDoneOn', {
+      header: 'Last done',
+      cell: ({ row }) => {
+        const { lastDoneOn, lastDoneMeter, meterUnit } = row.original;
+        const meter = meterText(lastDoneMeter, meterUnit);
+        return (
+          <>
+            <span className="block whitespace-nowrap">
+              {lastDoneOn ? formatCalendarDate(lastDoneOn) : 'not recorded'}
             </span>
-          ) : null}
-        </div>
-      );
-    },
-  }),
-]);
+            {meter ? <span className="block text-ink-soft">at {meter}</span> : null}
+          </>
+        );
+      },
+    }),
+    col.accessor((interval) => interval.state.status, {
+      id: 'status',
+      header: 'Where it stands',
+      cell: ({ row }) => {
+        const shown = intervalStatusShown[row.original.state.status];
+        return (
+          <div className="grid gap-1">
+            <span>
+              <StatusPill tone={shown.tone}>{shown.word}</StatusPill>
+            </span>
+            <span className="max-w-prose text-base">{row.original.state.reason}</span>
+            {row.original.source === 'generic' ? (
+              <span className="text-base font-bold text-warn">
+                Interval: generic — confirm in the service manual
+              </span>
+            ) : null}
+            {onRecord ? (
+              // In this cell, not a column of its own: on a phone the last column is off the screen.
+              <Button
+                variant="secondary"
+                className="mt-1 justify-self-start whitespace-nowrap"
+                aria-label={`Record ${row.original.label} done`}
+                onClick={() => onRecord(row.original)}
+              >
+                Record done
+              </Button>
+            ) : null}
+          </div>
+        );
+      },
+    }),
+  ]);
+}
 
 /**
  * The machine's service items and where each stands today, judged by the server; with `onRecord`,
@@ -93,28 +111,7 @@ export function ServiceIntervals({
   onRecord?: (interval: ServiceInterval) => void;
 }) {
   const intervals = useServiceIntervals(machineId);
-  const shownColumns = useMemo(
-    () =>
-      onRecord
-        ? [
-            ...columns,
-            col.display({
-              id: 'record',
-              header: 'Done again?',
-              cell: ({ row }) => (
-                <Button
-                  variant="secondary"
-                  aria-label={`Record ${row.original.label} done`}
-                  onClick={() => onRecord(row.original)}
-                >
-                  Record done
-                </Button>
-              ),
-            }),
-          ]
-        : columns,
-    [onRecord],
-  );
+  const shownColumns = useMemo(() => columnsFor(onRecord), [onRecord]);
   if (intervals.isPending) return <Loading>Loading the service intervals…</Loading>;
   if (intervals.isError) {
     return (
