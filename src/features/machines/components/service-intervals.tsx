@@ -1,23 +1,15 @@
 import { useMemo } from 'react';
-import type { IntervalStatus } from '../../../../shared/api/reminders';
 import type { ServiceInterval } from '../../../../shared/api/service-intervals';
 import { convert } from '../../../../shared/units';
 import { Button } from '../../../components/ui/button';
 import { dataColumns, DataTable } from '../../../components/ui/data-table';
 import { EmptyState } from '../../../components/ui/empty-state';
 import { LoadFailure, Loading } from '../../../components/ui/load-failure';
+import { intervalStatusShown } from '../../../components/ui/interval-status';
 import { StatusPill } from '../../../components/ui/status-pill';
-import type { Tone } from '../../../components/ui/tone';
 import { formatCalendarDate, formatDecimal } from '../../../lib/format';
 import { useServiceIntervals } from '../api/queries';
 import { meterText } from './machine-labels';
-
-export const intervalStatusShown: Record<IntervalStatus, { tone: Tone; word: string }> = {
-  overdue: { tone: 'fail', word: 'Overdue' },
-  due: { tone: 'warn', word: 'Due' },
-  due_soon: { tone: 'quiet', word: 'Due soon' },
-  ok: { tone: 'pass', word: 'Not due' },
-};
 
 /** "8,000 km (4,971 mi) or 12 months": every limit, whichever comes first, in the machine's unit too. */
 function everyText(interval: ServiceInterval): string {

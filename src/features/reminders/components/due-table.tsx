@@ -5,6 +5,7 @@ import type { DueItem, IntervalStatus } from '../../../../shared/api/reminders';
 import { Button } from '../../../components/ui/button';
 import { dataColumns, DataTable } from '../../../components/ui/data-table';
 import { LoadFailure, Loading } from '../../../components/ui/load-failure';
+import { intervalStatusShown } from '../../../components/ui/interval-status';
 import { StatusPill } from '../../../components/ui/status-pill';
 import { toneClasses, toneGlyphs } from '../../../components/ui/tone';
 import type { Tone } from '../../../components/ui/tone';
@@ -13,13 +14,6 @@ import { formatCalendarDate, formatDecimal, formatInstant } from '../../../lib/f
 import { useSendReminder } from '../api/mutations';
 import { useDueList } from '../api/queries';
 import type { DueFilter } from '../api/queries';
-
-const statusShown: Record<IntervalStatus, { tone: Tone; word: string }> = {
-  overdue: { tone: 'fail', word: 'Overdue' },
-  due: { tone: 'warn', word: 'Due' },
-  due_soon: { tone: 'quiet', word: 'Due soon' },
-  ok: { tone: 'pass', word: 'Not due' },
-};
 
 const URGENCY: Record<IntervalStatus, number> = { overdue: 0, due: 1, due_soon: 2, ok: 3 };
 
@@ -84,8 +78,8 @@ export function DueTable({ filter, links, canSend, empty }: DueTableProps) {
             <div className="grid gap-1 font-normal">
               <span className="font-bold">{row.original.label}</span>
               <span>
-                <StatusPill tone={statusShown[row.original.status].tone}>
-                  {statusShown[row.original.status].word}
+                <StatusPill tone={intervalStatusShown[row.original.status].tone}>
+                  {intervalStatusShown[row.original.status].word}
                 </StatusPill>
               </span>
               <span className="max-w-prose text-base text-ink-soft">{row.original.reason}</span>

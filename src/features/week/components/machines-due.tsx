@@ -2,15 +2,9 @@ import { Link } from 'react-router';
 import type { MachineDue } from '../../../../shared/api/reports';
 import { paths } from '../../../app/paths';
 import { Panel } from '../../../components/ui/panel';
+import { intervalStatusShown } from '../../../components/ui/interval-status';
 import { StatusPill } from '../../../components/ui/status-pill';
-import type { Tone } from '../../../components/ui/tone';
 import { countOf, formatCalendarDate, formatDecimal } from '../../../lib/format';
-
-const statusShown: Record<MachineDue['status'], { tone: Tone; word: string }> = {
-  overdue: { tone: 'fail', word: 'Overdue' },
-  due: { tone: 'warn', word: 'Due' },
-  due_soon: { tone: 'quiet', word: 'Due soon' },
-};
 
 /** The whole due list, due soon included, as it stands today. */
 const REMINDERS_DUE_SOON = `${paths.reminders}?show=soon`;
@@ -68,8 +62,8 @@ export function MachinesDue({ machines, total, end, linkToReminders = true }: Ma
                   </td>
                   <td className="py-3 pr-4">
                     <span className="mb-1 block">{due.label}</span>
-                    <StatusPill tone={statusShown[due.status].tone}>
-                      {statusShown[due.status].word}
+                    <StatusPill tone={intervalStatusShown[due.status].tone}>
+                      {intervalStatusShown[due.status].word}
                     </StatusPill>
                   </td>
                   <td className="py-3">
