@@ -6,11 +6,11 @@
 import type { Command } from 'commander';
 import { format } from 'date-fns';
 import { z } from 'zod';
-import { IsoDateSchema } from '../../shared/api/common';
 import {
   serviceIntervalsPath,
   ServiceIntervalListSchema,
   ServiceIntervalSchema,
+  UpdateServiceIntervalInputSchema,
   type ServiceInterval,
 } from '../../shared/api/service-intervals';
 import { createApi, UnreachableError } from '../lib/api';
@@ -27,12 +27,6 @@ const idOf = (text: string, what: string) => {
   return Number(text);
 };
 
-const STATUS_WORDS: Record<ServiceInterval['state']['status'], (text: string) => string> = {
-  overdue: (text) => theme.fail(text),
-  due: (text) => theme.warn(text),
-  due_soon: (text) => theme.warn(text),
-  ok: (text) => theme.pass(text),
-};
 const STATUS_LABEL: Record<ServiceInterval['state']['status'], string> = {
   overdue: 'overdue',
   due: 'due',
@@ -44,7 +38,7 @@ function line(interval: ServiceInterval): string {
   const status = interval.state.status;
   const generic =
     interval.source === 'generic' ? theme.warn('  (generic: confirm in the service manual)') : '';
-  return `${String(interval.id).padStart(5)}  ${interval.label.padEnd(24)} ${STATUS_WORDS[status](STATUS_LABEL[status].padEnd(9))} ${interval.state.reason}${generic}\n`;
+  return `${String(interval.id).padStart(5)}  ${interval.label.padEnd(24)} ${theme[interval.state.verdict](STATUS_LABEL[status].padEnd(9))} ${interval.state.reason}${generic}\n`;
 }
 
 export async function serviceListAction(deps: CliDeps, machineText: string, raw: unknown, command: Command) {
@@ -87,15 +81,23 @@ export async function serviceDoneAction(
   const machineId = idOf(machineText, 'MACHINE');
   const intervalId = idOf(intervalText, 'INTERVAL');
   const on = options.on ?? format(new Date(), 'yyyy-MM-dd');
-  if (!IsoDateSchema.safeParse(on).success)
-    throw new UsageError(`--on must be a day as YYYY-MM-DD, e.g. 2026-11-18, got "${on}"`);
-  let meter: number | undefined;
-  if (options.meter !== undefined) {
-    if (!/^\d+(\.\d+)?$/.test(options.meter.replace(/,/g, '')))
-      throw new UsageError(`--meter must be the meter reading, e.g. 18420 or 312.5, got "${options.meter}"`);
-    meter = Number(options.meter.replace(/,/g, ''));
+  const meterText = options.meter?.replace(/,/g, '');
+  const body = {
+    lastDoneOn: on,
+    ...(meterText === undefined
+      ? {}
+      : { lastDoneMeter: /^\d+(\.\d+)?$/.test(meterText) ? Number(meterText) : NaN }),
+  };
+  // The API's own schema decides what it would take, so nothing it would refuse is queued.
+  const checked = UpdateServiceIntervalInputSchema.safeParse(body);
+  if (!checked.success) {
+    const bad = checked.error.issues[0]?.path[0] === 'lastDoneMeter' ? 'meter' : 'on';
+    throw new UsageError(
+      bad === 'meter'
+        ? `--meter must be the meter reading, e.g. 18420 or 312.5, got "${options.meter}"`
+        : `--on must be a day as YYYY-MM-DD, e.g. 2026-11-18, got "${on}"`,
+    );
   }
-  const body = { lastDoneOn: on, ...(meter === undefined ? {} : { lastDoneMeter: meter }) };
   const path = `${serviceIntervalsPath(machineId)}/${intervalId}`;
   const api = createApi(deps, options.server);
   try {

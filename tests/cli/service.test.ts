@@ -133,6 +133,8 @@ describe('vanbay service', () => {
       ['service', 'done', String(bikeId), String(filterId), '--on', '18/11/2026'],
       ['service', 'done', String(bikeId), String(filterId), '--on', '2026-13-45'],
       ['service', 'done', String(bikeId), String(filterId), '--meter', 'lots'],
+      // Above what the API takes (shared/api/service-intervals.ts): refused here, not queued.
+      ['service', 'done', String(bikeId), String(filterId), '--meter', '99999999'],
     ]) {
       const result = await run('online', ...argv);
       expect(result.code, argv.join(' ')).toBe(2);
